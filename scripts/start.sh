@@ -7,7 +7,7 @@ source "$(dirname "$0")/lib.sh"
 MODE="start"
 [ "${1:-}" = "--dev" ] && MODE="dev"
 
-DATA="${DATA_DIR:-$ROOT/.data}"
+DATA="$(realpath -m "${DATA_DIR:-$ROOT/.data}")"
 DB_PORT="${DB_PORT:-3307}"
 MAIL_PORT="${MAIL_PORT:-3025}"
 PORT="${PORT:-3000}"

@@ -5,7 +5,7 @@
 set -uo pipefail
 source "$(dirname "$0")/lib.sh"
 
-TEST_DATA="${TEST_DATA_DIR:-$ROOT/.data-test}"
+TEST_DATA="$(realpath -m "${TEST_DATA_DIR:-$ROOT/.data-test}")"
 DB_PORT="${TEST_DB_PORT:-3318}"
 MAIL_PORT="${TEST_MAIL_PORT:-3035}"
 APP_PORT="${TEST_APP_PORT:-3100}"

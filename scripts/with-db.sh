@@ -4,7 +4,7 @@
 set -euo pipefail
 source "$(dirname "$0")/lib.sh"
 
-DATA="${DATA_DIR:-$ROOT/.data}"
+DATA="$(realpath -m "${DATA_DIR:-$ROOT/.data}")"
 DB_PORT="${DB_PORT:-3307}"
 MAIL_PORT="${MAIL_PORT:-3025}"
 
