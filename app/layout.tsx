@@ -3,6 +3,7 @@ import "@fontsource/source-sans-3/600.css";
 import "@fontsource/source-sans-3/700.css";
 import "./globals.css";
 import type { Metadata, Viewport } from "next";
+import { headers } from "next/headers";
 import type { ReactNode } from "react";
 
 export const metadata: Metadata = {
@@ -16,7 +17,10 @@ export const viewport: Viewport = {
   themeColor: "#0e5a63",
 };
 
-export default function RootLayout({ children }: { children: ReactNode }) {
+export default async function RootLayout({ children }: { children: ReactNode }) {
+  // Reading the request makes every page render per request, so Next can stamp its scripts
+  // with this request's CSP nonce (set in proxy.ts); a prerendered page would carry none.
+  await headers();
   return (
     <html lang="en">
       <body className="min-h-screen">{children}</body>
