@@ -7,3 +7,4 @@ export * from "./reports";
 export * from "./notices";
 export * from "./audit";
 export * from "./imports";
+export * from "./payments";

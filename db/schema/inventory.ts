@@ -95,6 +95,8 @@ export const assemblies = mysqlTable(
     status: mysqlEnum(assemblyStatuses).notNull().default("active"),
     removedOn: date({ mode: "string" }),
     replacedById: int({ unsigned: true }),
+    /** A field registration merged into an existing assembly: its reports moved there; it counts nowhere. */
+    mergedIntoId: int({ unsigned: true }),
     /** The tester who registered it from the field, when not yet confirmed. */
     registeredBy: int({ unsigned: true }).references(() => users.id),
     notes: text(),

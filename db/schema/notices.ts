@@ -25,11 +25,18 @@ export const notices = mysqlTable(
     ownerId: int({ unsigned: true }).references(() => owners.id),
     channel: mysqlEnum(["email", "letter"]).notNull(),
     recipientEmail: varchar({ length: 254 }),
-    status: mysqlEnum(["pending", "sent", "failed", "letter_ready", "letter_printed"]).notNull().default("pending"),
+    /** "withdrawn": recorded but no longer needed when its turn came (the assembly was tested, or a later stage took over). */
+    status: mysqlEnum(["pending", "sent", "failed", "letter_ready", "letter_printed", "withdrawn"]).notNull().default("pending"),
     attempts: smallint({ unsigned: true }).notNull().default(0),
     nextAttemptAt: datetime({ fsp: 3 }),
     lastError: text(),
     messageId: varchar({ length: 120 }),
+    /**
+     * Set while the notice is part of a batch handed to the mail service: the batch's
+     * idempotency key. A run that dies before the answer is recorded leaves it set, and the
+     * next run sends the same batch under the same key, so the service delivers it once.
+     */
+    batchKey: varchar({ length: 64 }),
     plannedOn: date({ mode: "string" }).notNull(),
     sentAt: datetime({ fsp: 3 }),
     runId: int({ unsigned: true }),
@@ -37,6 +44,7 @@ export const notices = mysqlTable(
   },
   (t) => [
     uniqueIndex("notices_key_uq").on(t.noticeKey),
+    index("notices_batch_idx").on(t.batchKey),
     index("notices_status_idx").on(t.programId, t.status, t.nextAttemptAt),
     index("notices_assembly_idx").on(t.assemblyId, t.dueCycle),
     index("notices_planned_idx").on(t.programId, t.plannedOn),
@@ -60,6 +68,8 @@ export const noticeRuns = mysqlTable(
     letters: int({ unsigned: true }).notNull().default(0),
     total: int({ unsigned: true }).notNull().default(0),
     log: text(),
+    /** The day's letters (a PDF in the file store), when the run produced any. */
+    lettersStorageKey: varchar({ length: 100 }),
     startedAt: datetime({ fsp: 3 }).notNull(),
     finishedAt: datetime({ fsp: 3 }),
   },

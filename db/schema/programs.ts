@@ -39,6 +39,8 @@ export const programSettings = mysqlTable("program_settings", {
   overdueDaysAfter: smallint().notNull().default(1),
   finalDaysAfter: smallint().notNull().default(30),
   repairReminderDaysBefore: smallint().notNull().default(7),
+  /** The final notice names the date after which service may be discontinued, this many days after it goes out (local sequences such as 45 / 30 / 15 days [S]). */
+  discontinueDaysAfterFinal: smallint().notNull().default(15),
   filingFeeCents: int({ unsigned: true }).notNull().default(0),
   currency: char({ length: 3 }).notNull().default("USD"),
   units: mysqlEnum(["psid", "kPa"]).notNull().default("psid"),

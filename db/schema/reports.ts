@@ -92,6 +92,9 @@ export const testReports = mysqlTable(
     index("test_reports_tester_time_idx").on(t.testerId, t.testedAt),
     index("test_reports_assembly_idx").on(t.assemblyId, t.testedOn),
     index("test_reports_program_date_idx").on(t.programId, t.testedOn),
+    // Covers the monthly tally and the yearly summary's read (date range → assembly, status and
+    // outcomes) so both are index-only scans instead of a row lookup per report.
+    index("test_reports_tally_idx").on(t.programId, t.testedOn, t.status, t.assemblyId, t.initialOutcome, t.finalOutcome),
     index("test_reports_fingerprint_idx").on(t.programId, t.testedOn, t.fingerprint),
   ],
 );
@@ -194,6 +197,22 @@ export const certificates = mysqlTable(
     supersededAt: datetime({ fsp: 3 }),
   },
   (t) => [uniqueIndex("certificates_code_uq").on(t.code), index("certificates_report_idx").on(t.reportId)],
+);
+
+/**
+ * The last report number handed out per program and year ("QV-2026-000123" → 123). Allocation
+ * locks this one row, so concurrent submissions get consecutive numbers and never the same one.
+ */
+export const reportNumberSequences = mysqlTable(
+  "report_number_sequences",
+  {
+    programId: int({ unsigned: true })
+      .notNull()
+      .references(() => programs.id),
+    year: smallint({ unsigned: true }).notNull(),
+    lastNumber: int({ unsigned: true }).notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.programId, t.year] })],
 );
 
 export type TestReport = typeof testReports.$inferSelect;

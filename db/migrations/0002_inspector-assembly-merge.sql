@@ -1,0 +1,1 @@
+ALTER TABLE `assemblies` ADD `merged_into_id` int unsigned;

@@ -1,0 +1,1 @@
+ALTER TABLE `notices` MODIFY COLUMN `status` enum('pending','sent','failed','letter_ready','letter_printed','withdrawn') NOT NULL DEFAULT 'pending';

@@ -1,0 +1,1 @@
+CREATE INDEX `test_reports_tally_idx` ON `test_reports` (`program_id`,`tested_on`,`status`,`assembly_id`,`initial_outcome`,`final_outcome`);
