@@ -4,7 +4,7 @@ import drizzle from "eslint-plugin-drizzle";
 import tseslint from "typescript-eslint";
 
 export default tseslint.config(
-  { ignores: ["node_modules/**", ".next/**", ".next-*/**", ".data/**", ".data-*/**", "db/migrations/**", "next-env.d.ts", "scripts/*.mjs", "eslint.config.mjs", "postcss.config.mjs"] },
+  { ignores: ["node_modules/**", ".next/**", ".next-*/**", ".data/**", ".data-*/**", "db/migrations/**", "next-env.d.ts", "scripts/*.mjs", "scripts/*.cjs", "eslint.config.mjs", "postcss.config.mjs"] },
   ...tseslint.configs.recommendedTypeChecked,
   {
     languageOptions: { parserOptions: { projectService: true, tsconfigRootDir: import.meta.dirname } },

@@ -28,6 +28,12 @@ const schema = z.object({
   MAIL_FROM: withDefault(z.string().min(3), "Zoneward <notices@zoneward.invalid>"),
   /** Where the admin mailbox page reads messages from (the local stand-in only). */
   MAIL_STANDIN_URL: optional(z.url()),
+  /** Payments go through the Stripe SDK. The default key is the local stand-in's; a real secret key means the hosted service. */
+  STRIPE_SECRET_KEY: withDefault(z.string().min(1), "sk_test_local_standin"),
+  /** The secret that signs webhook deliveries (the stand-in's default, or the hosted endpoint's signing secret). */
+  STRIPE_WEBHOOK_SECRET: withDefault(z.string().min(1), "whsec_local_standin"),
+  /** Base URL of the payments API; unset means the hosted service. The start and test scripts point it at the stand-in. */
+  STRIPE_API_URL: optional(z.url()),
   UPLOAD_MAX_BYTES: withDefault(z.coerce.number().int().min(1024), 10 * 1024 * 1024),
   TRUST_PROXY: flag(false),
 });

@@ -153,6 +153,23 @@ start_mail() {
   fail "the mail stand-in did not answer"
 }
 
+# start_payments DIR PORT WEBHOOK_URL: the local stand-in of the payments API, keeping its state
+# in DIR and sending signed webhooks to WEBHOOK_URL.
+start_payments() {
+  local dir="$1" port="$2" webhook_url="$3"
+  mkdir -p "$dir"
+  assert_port_free "$port"
+  setsid node --import tsx "$ROOT/scripts/payments-standin.ts" --port "$port" --dir "$dir" \
+    --webhook-url "$webhook_url" --webhook-secret "$STRIPE_WEBHOOK_SECRET" --api-key "$STRIPE_SECRET_KEY" >"$dir/standin.log" 2>&1 &
+  PAYMENTS_PID=$!
+  for _ in $(seq 1 100); do
+    kill -0 "$PAYMENTS_PID" 2>/dev/null || { cat "$dir/standin.log" >&2; fail "the payments stand-in exited (is port $port taken? set PAYMENTS_PORT, or TEST_PAYMENTS_PORT for tests)"; }
+    if node -e "fetch('http://127.0.0.1:$port/health').then(r=>process.exit(r.ok?0:1),()=>process.exit(1))" 2>/dev/null; then return 0; fi
+    sleep 0.1
+  done
+  fail "the payments stand-in did not answer"
+}
+
 # Background services run in a process group of their own (setsid), so stopping one stops
 # every process it started: `next start` renames itself and npx leaves children behind.
 stop_pid() {
@@ -195,9 +212,11 @@ build_app() {
   npx next build >"${BUILD_LOG:-/dev/stdout}" 2>&1 || { [ -n "${BUILD_LOG:-}" ] && tail -60 "$BUILD_LOG"; fail "next build failed"; }
 }
 
-# Runs a TypeScript file with the project's path aliases and the server-only guard relaxed.
+# Runs a TypeScript file with the project's path aliases and the server-only guard relaxed
+# (for import and require alike). --conditions=import lets tsx's require() reach packages that
+# ship ES modules only, such as the PDF renderer.
 run_ts() {
-  node --import tsx --import "$ROOT/scripts/server-env.mjs" "$@"
+  node --conditions=import --require "$ROOT/scripts/server-only-require.cjs" --import tsx --import "$ROOT/scripts/server-env.mjs" "$@"
 }
 
 # Mail: the local stand-in unless a real API key is configured (then the hosted service,
@@ -210,5 +229,19 @@ configure_mail() {
     export MAIL_STANDIN_URL="$RESEND_BASE_URL"
   else
     unset RESEND_BASE_URL MAIL_STANDIN_URL
+  fi
+}
+
+# Payments: the local stand-in unless a real secret key is configured (then the hosted service,
+# keys only). Sets STRIPE_API_URL and PAYMENTS_STANDIN_URL accordingly.
+configure_payments() {
+  local port="$1"
+  if [ -z "${STRIPE_SECRET_KEY:-}" ] || [ "${STRIPE_SECRET_KEY}" = "sk_test_local_standin" ]; then
+    export STRIPE_SECRET_KEY="sk_test_local_standin"
+    export STRIPE_WEBHOOK_SECRET="whsec_local_standin"
+    export STRIPE_API_URL="http://127.0.0.1:$port"
+    export PAYMENTS_STANDIN_URL="$STRIPE_API_URL"
+  else
+    unset STRIPE_API_URL PAYMENTS_STANDIN_URL
   fi
 }

@@ -9,12 +9,16 @@ TEST_DATA="$(realpath -m "${TEST_DATA_DIR:-$ROOT/.data-test}")"
 DB_PORT="${TEST_DB_PORT:-3318}"
 MAIL_PORT="${TEST_MAIL_PORT:-3035}"
 APP_PORT="${TEST_APP_PORT:-3100}"
+# Derived from the mail port unless set, so test worlds that moved their ports do not collide.
+PAYMENTS_PORT="${TEST_PAYMENTS_PORT:-$((MAIL_PORT + 10))}"
 
 APP_PID=""
 MAIL_PID=""
+PAYMENTS_PID=""
 cleanup() {
   stop_pid "$APP_PID"
   stop_pid "$MAIL_PID"
+  stop_pid "$PAYMENTS_PID"
   stop_db "$TEST_DATA/mariadb"
 }
 trap cleanup EXIT
@@ -44,6 +48,10 @@ export TEST_APP_URL="$APP_URL"
 export RESEND_API_KEY="re_local_standin"
 export RESEND_BASE_URL="http://127.0.0.1:$MAIL_PORT"
 export MAIL_STANDIN_URL="$RESEND_BASE_URL"
+export STRIPE_SECRET_KEY="sk_test_local_standin"
+export STRIPE_WEBHOOK_SECRET="whsec_local_standin"
+export STRIPE_API_URL="http://127.0.0.1:$PAYMENTS_PORT"
+export PAYMENTS_STANDIN_URL="$STRIPE_API_URL"
 export COOKIE_SECURE=false
 export SCREENSHOT_DIR="$TEST_DATA/screenshots"
 
@@ -51,6 +59,7 @@ say "migrating and seeding the test database"
 run_ts scripts/migrate.ts
 run_ts db/seed/index.ts --if-empty --quiet
 start_mail "$TEST_DATA/mail" "$MAIL_PORT"
+start_payments "$TEST_DATA/payments" "$PAYMENTS_PORT" "$APP_URL/api/fees/webhook"
 
 BUILD_LOG="$TEST_DATA/build.log" build_app
 assert_port_free "$APP_PORT"

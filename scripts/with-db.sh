@@ -7,17 +7,20 @@ source "$(dirname "$0")/lib.sh"
 DATA="$(realpath -m "${DATA_DIR:-$ROOT/.data}")"
 DB_PORT="${DB_PORT:-3307}"
 MAIL_PORT="${MAIL_PORT:-3025}"
+PAYMENTS_PORT="${PAYMENTS_PORT:-$((MAIL_PORT + 1))}"
 
 ensure_node_modules
 ensure_mariadb
 STARTED_HERE=""
 MAIL_PID=""
+PAYMENTS_PID=""
 if ! db_is_up "$DATA/mariadb"; then
   STARTED_HERE=1
   start_db "$DATA/mariadb" "$DB_PORT"
 fi
 cleanup() {
   stop_pid "$MAIL_PID"
+  stop_pid "$PAYMENTS_PID"
   [ -z "$STARTED_HERE" ] || stop_db "$DATA/mariadb"
 }
 trap cleanup EXIT
@@ -31,6 +34,10 @@ configure_mail "$MAIL_PORT"
 # A command that sends mail against the stand-in needs it up; start it if nobody else has.
 if [ -n "${MAIL_STANDIN_URL:-}" ] && ! node -e "fetch('$MAIL_STANDIN_URL/health').then(r=>process.exit(r.ok?0:1),()=>process.exit(1))" 2>/dev/null; then
   start_mail "$DATA/mail" "$MAIL_PORT"
+fi
+configure_payments "$PAYMENTS_PORT"
+if [ -n "${PAYMENTS_STANDIN_URL:-}" ] && ! node -e "fetch('$PAYMENTS_STANDIN_URL/health').then(r=>process.exit(r.ok?0:1),()=>process.exit(1))" 2>/dev/null; then
+  start_payments "$DATA/payments" "$PAYMENTS_PORT" "http://127.0.0.1:${PORT:-3000}/api/fees/webhook"
 fi
 run_ts scripts/migrate.ts
 case "${1:-}" in
