@@ -21,6 +21,11 @@ export interface AssemblySnapshot {
   siteName: string;
   address: string;
   accountNumber: string;
+  /** Kept by reports filed through the field-test form (older snapshots lack them). */
+  contactName?: string;
+  contactPhone?: string;
+  installedOn?: string | null;
+  status?: string;
 }
 
 export interface TesterSnapshot {
