@@ -28,7 +28,12 @@ export function DecisionForm({ approvalId, decisions, testerName }: { approvalId
       ))}
       {state && !state.ok ? (
         <p role="alert" className="w-full text-sm font-medium text-fail-700">
-          {state.error}
+          {state.fieldErrors?.reason?.[0] ?? state.error}
+        </p>
+      ) : null}
+      {state?.ok ? (
+        <p role="status" className="w-full text-sm font-medium text-pass-700">
+          Done: the tester has been e-mailed and the decision is in the audit log.
         </p>
       ) : null}
     </form>

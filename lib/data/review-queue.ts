@@ -1,0 +1,317 @@
+import "server-only";
+import { and, asc, count, desc, eq, gt, lt, min, or, sql, type SQL } from "drizzle-orm";
+import { z } from "zod";
+import { getDb } from "@/db/client";
+import { assemblies, testReports } from "@/db/schema";
+import { assemblyKinds } from "@/db/schema/inventory";
+import { assertCan, staffProgramId, type Actor } from "@/lib/auth/permissions";
+import { InputError } from "@/lib/errors";
+import type { SuspiciousSignal, ValidityIssue } from "@/lib/rules";
+import type { AssemblySnapshot, TesterSnapshot } from "./report-detail";
+
+/**
+ * The review queue: the program's reports with status 'queued', oldest first. Every page is one
+ * range scan of test_reports_queue_idx (program_id, status, submitted_at) from a keyset cursor;
+ * the queue itself is bounded by what is waiting (a busy day adds about 2,000), never by the
+ * years of history behind it, so counts and filters over it stay cheap at 1.5 million reports.
+ */
+
+export const queueSorts = ["oldest", "newest", "tested_oldest", "tested_newest"] as const;
+export type QueueSort = (typeof queueSorts)[number];
+
+export const queueFilterSchema = z.object({
+  kind: z.enum(assemblyKinds, { message: "Choose an assembly kind from the list." }).optional().catch(undefined),
+  grade: z.enum(["pass", "fail", "repaired"], { message: "Choose pass, fail or passed after repair." }).optional().catch(undefined),
+  testerId: z.coerce.number().int().positive().optional().catch(undefined),
+  /** Waiting longer than this many days. */
+  age: z.coerce.number().int().min(1).max(365).optional().catch(undefined),
+  flags: z.enum(["clean", "flagged", "signals", "credentials", "errors"]).optional().catch(undefined),
+});
+export type QueueFilter = z.infer<typeof queueFilterSchema>;
+
+export const queuePageSchema = queueFilterSchema.extend({
+  sort: z.enum(queueSorts).default("oldest").catch("oldest"),
+  cursor: z.string().max(200).optional(),
+  limit: z.coerce.number().int().min(5).max(100).default(25).catch(25),
+});
+export type QueuePageQuery = z.infer<typeof queuePageSchema>;
+
+const certificationCodes = new Set(["certification_missing", "certification_expired", "certification_not_yet_valid", "certification_invalid_on_test_date"]);
+const kitCodes = new Set(["kit_verification_missing", "kit_verification_expired", "kit_verified_after_test", "kit_invalid_on_test_date"]);
+
+export interface QueueRow {
+  id: number;
+  reportNumber: string;
+  revision: number;
+  submittedAt: string;
+  testedOn: string;
+  waitingDays: number;
+  kind: string;
+  serial: string;
+  location: string;
+  siteName: string;
+  address: string;
+  siteId: number;
+  assemblyId: number;
+  isUnconfirmedAssembly: boolean;
+  testerId: number;
+  testerName: string;
+  company: string | null;
+  initialOutcome: "pass" | "fail" | "incomplete";
+  finalOutcome: "pass" | "fail";
+  wasRepaired: boolean;
+  /** The tester's certification and the kit's verification on the test date, from the stored findings. */
+  certification: { isValid: boolean; messages: string[] };
+  kit: { isValid: boolean; messages: string[] };
+  /** Plausibility findings other than the two above. */
+  warnings: { severity: "error" | "warning"; message: string }[];
+  signals: { code: string; message: string }[];
+  isClean: boolean;
+}
+
+export interface QueuePage {
+  rows: QueueRow[];
+  /** Everything waiting in the program. */
+  total: number;
+  /** Waiting and matching the filter. */
+  matching: number;
+  nextCursor: string | null;
+}
+
+/** The shared WHERE of the queue and a filter. */
+function queueConditions(programId: number, filter: QueueFilter, now: Date): SQL[] {
+  const where: SQL[] = [eq(testReports.programId, programId), eq(testReports.status, "queued")];
+  if (filter.kind) where.push(eq(assemblies.kind, filter.kind));
+  if (filter.grade === "pass") where.push(eq(testReports.finalOutcome, "pass"), eq(testReports.wasRepaired, false));
+  if (filter.grade === "fail") where.push(eq(testReports.finalOutcome, "fail"));
+  if (filter.grade === "repaired") where.push(eq(testReports.finalOutcome, "pass"), eq(testReports.wasRepaired, true));
+  if (filter.testerId) where.push(eq(testReports.testerId, filter.testerId));
+  if (filter.age) where.push(lt(testReports.submittedAt, new Date(now.getTime() - filter.age * 86_400_000)));
+  if (filter.flags === "clean") where.push(eq(testReports.isClean, true));
+  if (filter.flags === "flagged") where.push(gt(testReports.warningCount, 0));
+  if (filter.flags === "signals") where.push(sql`JSON_LENGTH(${testReports.signals}) > 0`);
+  if (filter.flags === "errors") where.push(sql`JSON_SEARCH(${testReports.validity}, 'one', 'error', NULL, '$[*].severity') IS NOT NULL`);
+  if (filter.flags === "credentials") {
+    where.push(
+      sql`(JSON_SEARCH(${testReports.validity}, 'one', 'certification%', NULL, '$[*].code') IS NOT NULL OR JSON_SEARCH(${testReports.validity}, 'one', 'kit%', NULL, '$[*].code') IS NOT NULL
+        OR JSON_SEARCH(${testReports.signals}, 'one', 'certification%', NULL, '$[*].code') IS NOT NULL OR JSON_SEARCH(${testReports.signals}, 'one', 'kit%', NULL, '$[*].code') IS NOT NULL)`,
+    );
+  }
+  return where;
+}
+
+function needsAssemblyJoin(filter: QueueFilter): boolean {
+  return Boolean(filter.kind);
+}
+
+interface Cursor {
+  v: string;
+  id: number;
+}
+
+function encodeCursor(cursor: Cursor): string {
+  return Buffer.from(JSON.stringify(cursor)).toString("base64url");
+}
+
+function decodeCursor(raw: string | undefined): Cursor | null {
+  if (!raw) return null;
+  try {
+    const parsed = JSON.parse(Buffer.from(raw, "base64url").toString("utf8")) as Cursor;
+    if (typeof parsed.v !== "string" || !Number.isInteger(parsed.id)) throw new Error("bad cursor");
+    return parsed;
+  } catch {
+    throw new InputError("The page link is out of date: go back to the first page.", { cursor: ["Unreadable cursor."] });
+  }
+}
+
+function splitFindings(validity: ValidityIssue[], signals: SuspiciousSignal[]) {
+  const certification: string[] = [];
+  const kit: string[] = [];
+  const warnings: QueueRow["warnings"] = [];
+  for (const issue of validity) {
+    if (certificationCodes.has(issue.code)) certification.push(issue.message);
+    else if (kitCodes.has(issue.code)) kit.push(issue.message);
+    else warnings.push({ severity: issue.severity, message: issue.message });
+  }
+  const otherSignals: QueueRow["signals"] = [];
+  for (const signal of signals) {
+    if (certificationCodes.has(signal.code)) certification.push(signal.message);
+    else if (kitCodes.has(signal.code)) kit.push(signal.message);
+    else otherSignals.push({ code: signal.code, message: signal.message });
+  }
+  return { certification: { isValid: certification.length === 0, messages: certification }, kit: { isValid: kit.length === 0, messages: kit }, warnings, signals: otherSignals };
+}
+
+export async function listReviewQueue(actor: Actor, query: QueuePageQuery, now = new Date()): Promise<QueuePage> {
+  assertCan(actor, "reports.review");
+  const programId = staffProgramId(actor);
+  const db = getDb();
+  const cursor = decodeCursor(query.cursor);
+  const where = queueConditions(programId, query, now);
+
+  // Each sort is a column plus the id as tie-breaker, so a cursor names one exact place.
+  const byTested = query.sort === "tested_oldest" || query.sort === "tested_newest";
+  const isDescending = query.sort === "newest" || query.sort === "tested_newest";
+  const column = byTested ? testReports.testedOn : testReports.submittedAt;
+  if (cursor) {
+    const value = byTested ? cursor.v : new Date(cursor.v);
+    const beyond = isDescending ? lt : gt;
+    where.push(or(beyond(column, value), and(eq(column, value), beyond(testReports.id, cursor.id)))!);
+  }
+  const order = isDescending ? [desc(column), desc(testReports.id)] : [asc(column), asc(testReports.id)];
+
+  const rows = await db
+    .select({
+      id: testReports.id,
+      reportNumber: testReports.reportNumber,
+      revision: testReports.revision,
+      submittedAt: testReports.submittedAt,
+      testedOn: testReports.testedOn,
+      assemblyId: testReports.assemblyId,
+      siteId: assemblies.siteId,
+      assemblyStatus: assemblies.status,
+      kind: assemblies.kind,
+      testerId: testReports.testerId,
+      assemblySnapshot: testReports.assemblySnapshot,
+      testerSnapshot: testReports.testerSnapshot,
+      initialOutcome: testReports.initialOutcome,
+      finalOutcome: testReports.finalOutcome,
+      wasRepaired: testReports.wasRepaired,
+      validity: testReports.validity,
+      signals: testReports.signals,
+      isClean: testReports.isClean,
+    })
+    .from(testReports)
+    .innerJoin(assemblies, eq(assemblies.id, testReports.assemblyId))
+    .where(and(...where))
+    .orderBy(...order)
+    .limit(query.limit + 1);
+
+  const hasMore = rows.length > query.limit;
+  const pageRows = rows.slice(0, query.limit);
+  const last = pageRows.at(-1);
+  const [totals, matching] = await Promise.all([
+    db.select({ n: count() }).from(testReports).where(and(eq(testReports.programId, programId), eq(testReports.status, "queued"))),
+    countMatching(programId, query, now),
+  ]);
+  return {
+    rows: pageRows.map((r) => {
+      const site = r.assemblySnapshot as AssemblySnapshot;
+      const tester = r.testerSnapshot as TesterSnapshot;
+      return {
+        id: r.id,
+        reportNumber: r.reportNumber,
+        revision: r.revision,
+        submittedAt: r.submittedAt.toISOString(),
+        testedOn: r.testedOn,
+        waitingDays: Math.max(0, Math.floor((now.getTime() - r.submittedAt.getTime()) / 86_400_000)),
+        kind: r.kind,
+        serial: site.serial,
+        location: site.location,
+        siteName: site.siteName,
+        address: site.address,
+        siteId: r.siteId,
+        assemblyId: r.assemblyId,
+        isUnconfirmedAssembly: r.assemblyStatus === "awaiting_confirmation",
+        testerId: r.testerId,
+        testerName: tester.name,
+        company: tester.company,
+        initialOutcome: r.initialOutcome,
+        finalOutcome: r.finalOutcome,
+        wasRepaired: r.wasRepaired,
+        ...splitFindings((r.validity as ValidityIssue[]) ?? [], (r.signals as SuspiciousSignal[]) ?? []),
+        isClean: r.isClean,
+      };
+    }),
+    total: Number(totals[0]?.n ?? 0),
+    matching,
+    nextCursor: hasMore && last ? encodeCursor({ v: byTested ? last.testedOn : last.submittedAt.toISOString(), id: last.id }) : null,
+  };
+}
+
+async function countMatching(programId: number, filter: QueueFilter, now: Date): Promise<number> {
+  const db = getDb();
+  const base = db.select({ n: count() }).from(testReports);
+  const query = needsAssemblyJoin(filter) ? base.innerJoin(assemblies, eq(assemblies.id, testReports.assemblyId)) : base;
+  const [row] = await query.where(and(...queueConditions(programId, filter, now)));
+  return Number(row?.n ?? 0);
+}
+
+/** The largest set "accept all clean passes" takes in one confirmation. */
+export const CLEAN_PASS_LIMIT = 5000;
+
+/**
+ * The clean passes in a filter, oldest first: what "accept all clean passes" will accept. The
+ * inspector confirms this exact list; reports arriving afterwards are not in it.
+ */
+export async function listCleanPassIds(actor: Actor, filter: QueueFilter, now = new Date()): Promise<{ ids: number[]; count: number; isCapped: boolean }> {
+  assertCan(actor, "reports.review");
+  const programId = staffProgramId(actor);
+  const clean = { ...filter, flags: "clean" as const };
+  const where = [...queueConditions(programId, clean, now), eq(testReports.finalOutcome, "pass")];
+  const base = getDb().select({ id: testReports.id }).from(testReports);
+  const query = needsAssemblyJoin(filter) ? base.innerJoin(assemblies, eq(assemblies.id, testReports.assemblyId)) : base;
+  const rows = await query
+    .where(and(...where))
+    .orderBy(asc(testReports.submittedAt), asc(testReports.id))
+    .limit(CLEAN_PASS_LIMIT + 1);
+  const isCapped = rows.length > CLEAN_PASS_LIMIT;
+  const ids = rows.slice(0, CLEAN_PASS_LIMIT).map((r) => r.id);
+  return { ids, count: ids.length, isCapped };
+}
+
+export interface QueueStats {
+  waiting: number;
+  oldestSubmittedAt: string | null;
+  cleanPasses: number;
+  flagged: number;
+  failed: number;
+}
+
+/** The queue at a glance (one range scan of the queue index). */
+export async function getQueueStats(actor: Actor): Promise<QueueStats> {
+  assertCan(actor, "reports.review");
+  const programId = staffProgramId(actor);
+  const [row] = await getDb()
+    .select({
+      waiting: count(),
+      oldest: min(testReports.submittedAt),
+      clean: sql<number>`COALESCE(SUM(${testReports.isClean} AND ${testReports.finalOutcome} = 'pass'), 0)`,
+      flagged: sql<number>`COALESCE(SUM(${testReports.warningCount} > 0), 0)`,
+      failed: sql<number>`COALESCE(SUM(${testReports.finalOutcome} = 'fail'), 0)`,
+    })
+    .from(testReports)
+    .where(and(eq(testReports.programId, programId), eq(testReports.status, "queued")));
+  return {
+    waiting: Number(row?.waiting ?? 0),
+    oldestSubmittedAt: row?.oldest ? new Date(row.oldest).toISOString() : null,
+    cleanPasses: Number(row?.clean ?? 0),
+    flagged: Number(row?.flagged ?? 0),
+    failed: Number(row?.failed ?? 0),
+  };
+}
+
+/** Testers with something waiting, for the tester filter. */
+export async function listQueueTesters(actor: Actor): Promise<{ id: number; name: string; waiting: number }[]> {
+  assertCan(actor, "reports.review");
+  const programId = staffProgramId(actor);
+  const rows = await getDb()
+    .select({ id: testReports.testerId, name: sql<string>`MIN(JSON_UNQUOTE(JSON_EXTRACT(${testReports.testerSnapshot}, '$.name')))`, waiting: count() })
+    .from(testReports)
+    .where(and(eq(testReports.programId, programId), eq(testReports.status, "queued")))
+    .groupBy(testReports.testerId);
+  return rows.map((r) => ({ id: r.id, name: r.name, waiting: Number(r.waiting) })).sort((a, b) => a.name.localeCompare(b.name));
+}
+
+/** The oldest waiting report other than this one: where "next" goes after a decision. */
+export async function findNextQueuedReport(actor: Actor, afterReportId: number): Promise<number | null> {
+  assertCan(actor, "reports.review");
+  const programId = staffProgramId(actor);
+  const [row] = await getDb()
+    .select({ id: testReports.id })
+    .from(testReports)
+    .where(and(eq(testReports.programId, programId), eq(testReports.status, "queued"), sql`${testReports.id} <> ${afterReportId}`))
+    .orderBy(asc(testReports.submittedAt), asc(testReports.id))
+    .limit(1);
+  return row?.id ?? null;
+}
