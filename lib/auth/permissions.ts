@@ -13,6 +13,8 @@ export const permissionTable = {
   "assemblies.register": ["tester"],
   "tags.print": ["tester", "inspector", "admin"],
   "fees.pay": ["tester"],
+  /** Also needs users.is_billing_manager: the company's billing manager pays and sees every colleague's fees. */
+  "fees.pay_company": ["tester"],
   "reports.review": ["inspector", "admin"],
   "reports.read_program": ["inspector", "admin"],
   "inventory.view": ["inspector", "admin"],
