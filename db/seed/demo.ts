@@ -24,6 +24,7 @@ import {
   type RuleSet,
 } from "@/lib/rules";
 import { DEMO_PASSWORD, demoAccounts } from "./demo-accounts";
+import { seedDemoOwner } from "./demo-owner";
 import { businessWords, companyNames, facilityTypes, firstNames, kitMakers, lastNames, locations, makers, streetNames } from "./names";
 import { createRandom } from "./random";
 import { failureModeFor, generateReadings, inKilopascals } from "./readings";
@@ -140,7 +141,7 @@ export async function seedDemo(db: Database, options: DemoOptions): Promise<Reco
     })),
   );
   await db.insert(t.programSettings).values(
-    plans.map((p) => ({ programId: p.id, ...baseSettings, dueModel: p.dueModel, units: p.units, currency: "USD", filingFeeCents: 0, kitPolicy: "refuse" as const, updatedAt: createdAt })),
+    plans.map((p) => ({ programId: p.id, ...baseSettings, dueModel: p.dueModel, units: p.units, currency: "USD", filingFeeCents: p.id === 1 ? 1500 : 0, kitPolicy: "refuse" as const, updatedAt: createdAt })),
   );
   const reasons = [
     ["Readings are missing or incomplete", "Record every reading the assembly's procedure calls for."],
@@ -607,6 +608,7 @@ export async function seedDemo(db: Database, options: DemoOptions): Promise<Reco
   await insertChunked(repairRows, (c) => db.insert(t.reportRepairs).values(c));
   await insertChunked(reviewRows, (c) => db.insert(t.reviews).values(c));
   await insertChunked(certificateRows, (c) => db.insert(t.certificates).values(c));
+  await seedDemoOwner(db, { anchor });
 
   return {
     programs: plans.length,
