@@ -16,7 +16,9 @@ export const pdfColors = {
 };
 
 export const pdfStyles = StyleSheet.create({
-  page: { fontFamily: pdfFontFamily, fontSize: 9.5, color: pdfColors.ink, paddingTop: 36, paddingBottom: 48, paddingHorizontal: 40, lineHeight: 1.35 },
+  page: { fontFamily: pdfFontFamily, fontSize: 9.5, color: pdfColors.ink, paddingTop: 36, paddingBottom: 48, paddingHorizontal: 40 },
+  // No lineHeight on the page: react-pdf 4.9 then drops fixed footers (page numbers) entirely.
+  body: { lineHeight: 1.35 },
   h1: { fontSize: 17, fontWeight: 700, color: pdfColors.brand },
   h2: { fontSize: 11, fontWeight: 700, color: pdfColors.brand, marginTop: 12, marginBottom: 4 },
   small: { fontSize: 8, color: pdfColors.muted },
