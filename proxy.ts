@@ -41,6 +41,8 @@ export function proxy(request: NextRequest) {
   return response;
 }
 
+// Uploads skip the proxy: it would buffer (and cut) large request bodies, and the file
+// routes send their own restrictive headers.
 export const config = {
-  matcher: [{ source: "/((?!_next/static|_next/image|icon.svg|logo-mark.svg|favicon.ico).*)" }],
+  matcher: [{ source: "/((?!_next/static|_next/image|icon.svg|logo-mark.svg|favicon.ico|api/files$).*)" }],
 };

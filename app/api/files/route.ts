@@ -20,9 +20,14 @@ export async function POST(request: Request): Promise<Response> {
     const isTesterFile = purpose === "certification" || purpose === "kit_verification";
     if (isTesterFile ? actor.role !== "tester" : actor.role !== "inspector" && actor.role !== "admin") return errorResponse(403, "You are not allowed to upload this kind of file.", { code: "forbidden" });
     const maxBytes = purpose === "inventory_import" ? 60 * 1024 * 1024 : limit;
-    // Refuse an oversized upload from its declared length before reading it.
+    // Refuse an oversized upload from its declared length without keeping it. The rest of the
+    // body is read and thrown away (up to a bound) so the client hears the answer instead of a
+    // broken pipe; a body past the bound is cut off.
     const declared = Number(request.headers.get("content-length") ?? "0");
-    if (declared > maxBytes + 64 * 1024) return errorResponse(413, `The file is larger than ${(maxBytes / 1024 / 1024).toFixed(0)} MB.`, { code: "too_large" });
+    if (declared > maxBytes + 64 * 1024) {
+      await discardBody(request, 2 * maxBytes);
+      return errorResponse(413, `The file is larger than ${(maxBytes / 1024 / 1024).toFixed(0)} MB.`, { code: "too_large" });
+    }
     const form = await request.formData().catch(() => null);
     const file = form?.get("file");
     if (!(file instanceof File)) return errorResponse(422, "Attach a file.", { code: "invalid_input", fieldErrors: { file: ["Attach a file."] } });
@@ -30,5 +35,24 @@ export async function POST(request: Request): Promise<Response> {
     return jsonResponse(saved, { status: 201 });
   } catch (error) {
     return responseForError(error);
+  }
+}
+
+async function discardBody(request: Request, limit: number): Promise<void> {
+  const reader = request.body?.getReader();
+  if (!reader) return;
+  let seen = 0;
+  try {
+    for (;;) {
+      const { done, value } = await reader.read();
+      if (done) return;
+      seen += value.byteLength;
+      if (seen > limit) {
+        await reader.cancel();
+        return;
+      }
+    }
+  } catch {
+    /* the client went away: nothing to answer */
   }
 }
