@@ -30,7 +30,7 @@ export async function backupDatabase(url: string, file: string): Promise<{ file:
   mkdirSync(path.dirname(file), { recursive: true });
   const dump = spawn(binaries.dump, [...clientArgs(target), "--single-transaction", "--quick", "--routines", "--triggers", "--hex-blob", "--add-drop-table", target.database], { env: clientEnv(target), stdio: ["ignore", "pipe", "pipe"] });
   const done = waitFor(dump, "mariadb-dump");
-  await pipeline(dump.stdout!, createGzip(), createWriteStream(file));
+  await pipeline(dump.stdout, createGzip(), createWriteStream(file));
   await done;
   const manifest = `${file}.manifest.json`;
   writeFileSync(manifest, JSON.stringify({ database: target.database, takenAt: new Date().toISOString(), tables: await tableFacts(target) }, null, 2));

@@ -20,7 +20,7 @@ export async function restoreDatabase(url: string, file: string, into: string): 
   await admin.end();
   const load = spawn(binaries.client, [...clientArgs(target), into], { env: clientEnv(target), stdio: ["pipe", "ignore", "pipe"] });
   const done = waitFor(load, "mariadb (restore)");
-  await pipeline(createReadStream(file), createGunzip(), load.stdin!);
+  await pipeline(createReadStream(file), createGunzip(), load.stdin);
   await done;
   const mismatches: string[] = [];
   const manifestFile = `${file}.manifest.json`;

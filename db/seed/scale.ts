@@ -85,7 +85,7 @@ export async function seedScale(options: ScaleOptions): Promise<Record<string, n
   // Every connection loads without per-row checks (the generator is the check); the handler
   // is in place before the pool opens its first connection.
   pool.on("connection", (c) => {
-    c.query("SET foreign_key_checks = 0, unique_checks = 0");
+    void c.query("SET foreign_key_checks = 0, unique_checks = 0");
   });
   // An index a foreign key still needs cannot be dropped; it simply stays during the load.
   const dropped: Record<string, string[]> = {};

@@ -80,7 +80,7 @@ describe('RP and RPDA boundaries (published minimums)', () => {
   });
 
   it('can switch the check #1 > relief rule off in a local edition', () => {
-    const local: RuleSet = { ...structuredCloneRuleSet(defaultRuleSet), edition: 'fenwick-older', basedOn: 'published-current' };
+    const local: RuleSet = { ...structuredCloneRuleSet(defaultRuleSet), edition: 'thistlecombe-older', basedOn: 'published-current' };
     local.rp.check1MustExceedRelief = false;
     const grade = gradeFieldTest(rp({ reliefValveOpeningPoint: 6.0, check1Differential: 6.0 }), local);
     expect(grade.outcome).toBe('pass');

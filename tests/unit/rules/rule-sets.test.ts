@@ -94,7 +94,7 @@ describe('validateRuleSet', () => {
 
   it('treats switching the buffer off, or lowering it, as less strict against the buffer edition', () => {
     const base = bufferRuleSet;
-    const off: RuleSet = { ...structuredCloneRuleSet(base), edition: 'fenwick-hollow', basedOn: base.edition };
+    const off: RuleSet = { ...structuredCloneRuleSet(base), edition: 'thistlecombe', basedOn: base.edition };
     off.rp.bufferMin = null;
     expect(validateRuleSet(off, base).map((problem) => problem.path)).toEqual(['rp.bufferMin']);
     off.rp.bufferMin = 2.5;
