@@ -1,5 +1,5 @@
 import "server-only";
-import { and, asc, eq, inArray, like, sql, type SQL } from "drizzle-orm";
+import { and, asc, eq, inArray, like, sql } from "drizzle-orm";
 import { z } from "zod";
 import { getDb } from "@/db/client";
 import { assemblies, programs, sites } from "@/db/schema";
@@ -93,21 +93,24 @@ export async function searchAssemblies(actor: Actor, input: z.infer<typeof assem
   const pattern = prefixPattern(query);
   const db = getDb();
   const inService = inArray(assemblies.status, ["active", "awaiting_confirmation"]);
-  const run = (where: SQL | undefined) =>
+  // One query per program and per column, ordered by the column it matches: each reads its
+  // LIMIT rows straight off a (program_id, column) index range and stops, however many
+  // thousands of serials share the typed prefix. Ordering by anything else, or spanning two
+  // programs in one query, would make the database gather and sort every match.
+  const run = (programId: number, column: typeof assemblies.serial | typeof sites.accountNumber | typeof sites.addressLine1 | typeof sites.name) =>
     db
       .select(hitColumns)
-      .from(assemblies)
+      // Left to itself the optimizer walks the serial index from the program's first serial
+      // (a "ref" on program_id) instead of seeking to the prefix: the hint makes it a range.
+      .from(assemblies, column === assemblies.serial ? { forceIndex: "assemblies_serial_idx" } : undefined)
       .innerJoin(sites, eq(sites.id, assemblies.siteId))
       .innerJoin(programs, eq(programs.id, assemblies.programId))
-      .where(and(where, inService))
-      .orderBy(asc(sites.addressLine1), asc(assemblies.id))
+      .where(and(column === assemblies.serial ? eq(assemblies.programId, programId) : eq(sites.programId, programId), like(column, pattern), inService))
+      .orderBy(asc(column))
       .limit(PER_QUERY_LIMIT);
-  const [bySerial, byAccount, byAddress, byName] = await Promise.all([
-    run(and(inArray(assemblies.programId, scope), like(assemblies.serial, pattern))),
-    run(and(inArray(sites.programId, scope), like(sites.accountNumber, pattern))),
-    run(and(inArray(sites.programId, scope), like(sites.addressLine1, pattern))),
-    run(and(inArray(sites.programId, scope), like(sites.name, pattern))),
-  ]);
+  const columns = [assemblies.serial, sites.accountNumber, sites.addressLine1, sites.name] as const;
+  const results = await Promise.all(columns.map((column) => Promise.all(scope.map((programId) => run(programId, column)))));
+  const [bySerial, byAccount, byAddress, byName] = results.map((perProgram) => perProgram.flat()) as [Awaited<ReturnType<typeof run>>, Awaited<ReturnType<typeof run>>, Awaited<ReturnType<typeof run>>, Awaited<ReturnType<typeof run>>];
   const seen = new Set<number>();
   const hits: AssemblySearchHit[] = [];
   const add = (rows: typeof bySerial, matchedOn: MatchedOn) => {
