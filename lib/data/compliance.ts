@@ -5,7 +5,7 @@ import { getDb } from "@/db/client";
 import { assemblies, sites, testReports } from "@/db/schema";
 import { assemblyKinds, hazards } from "@/db/schema/inventory";
 import { assertCan, staffProgramId, type Actor } from "@/lib/auth/permissions";
-import { addMonths, complianceStates, complianceThresholds, type ComplianceState } from "@/lib/rules";
+import { addDays, addMonths, complianceStates, complianceThresholds, type ComplianceState } from "@/lib/rules";
 import { getProgramContext } from "./settings";
 
 /**
@@ -99,13 +99,35 @@ export interface MonthTally {
 /**
  * Tests per month over the last 24 months (by test date), for the whole program: filed (every
  * report but a superseded revision), passed (final outcome, counted reports) and failed (the
- * initial test failed). One index-only range of test_reports_tally_idx (program_id, tested_on,
- * status, …): at 1.5 million reports it reads the two years' entries of the index and no rows.
+ * initial test failed). Index-only ranges of test_reports_tally_idx (program_id, tested_on,
+ * status, …). The 23 closed months are counted once a day per program and kept in memory (a
+ * report filed late for a closed month shows the next day); the current month is counted live.
  */
 export async function getMonthlyTests(actor: Actor): Promise<MonthTally[]> {
   assertCan(actor, "compliance.view");
   const context = await getProgramContext(staffProgramId(actor));
   const firstMonth = `${addMonths(context.today, -23).slice(0, 7)}-01`;
+  const currentMonth = `${context.today.slice(0, 7)}-01`;
+  const cacheKey = `${context.id}:${context.today}`;
+  let closed = closedMonthsCache.get(cacheKey);
+  if (!closed) {
+    closed = await tallyMonths(context.id, firstMonth, addDays(currentMonth, -1));
+    for (const key of closedMonthsCache.keys()) if (key.startsWith(`${context.id}:`)) closedMonthsCache.delete(key);
+    closedMonthsCache.set(cacheKey, closed);
+  }
+  const current = await tallyMonths(context.id, currentMonth, context.today);
+  const months: MonthTally[] = [];
+  for (let i = 0; i < 24; i++) {
+    const key = addMonths(firstMonth, i).slice(0, 7);
+    const r = closed.get(key) ?? current.get(key);
+    months.push({ month: key, filed: r?.filed ?? 0, passed: r?.passed ?? 0, failed: r?.failed ?? 0 });
+  }
+  return months;
+}
+
+const closedMonthsCache = new Map<string, Map<string, MonthTally>>();
+
+async function tallyMonths(programId: number, from: string, to: string): Promise<Map<string, MonthTally>> {
   const month = sql<string>`DATE_FORMAT(${testReports.testedOn}, '%Y-%m')`;
   const rows = await getDb()
     .select({
@@ -115,16 +137,9 @@ export async function getMonthlyTests(actor: Actor): Promise<MonthTally[]> {
       failed: sql<number>`SUM(${testReports.initialOutcome} = 'fail')`,
     })
     .from(testReports)
-    .where(and(eq(testReports.programId, context.id), gte(testReports.testedOn, firstMonth), lte(testReports.testedOn, context.today), ne(testReports.status, "superseded")))
+    .where(and(eq(testReports.programId, programId), gte(testReports.testedOn, from), lte(testReports.testedOn, to), ne(testReports.status, "superseded")))
     .groupBy(month);
-  const byMonth = new Map(rows.map((r) => [r.month, r]));
-  const months: MonthTally[] = [];
-  for (let i = 0; i < 24; i++) {
-    const key = addMonths(firstMonth, i).slice(0, 7);
-    const r = byMonth.get(key);
-    months.push({ month: key, filed: Number(r?.filed ?? 0), passed: Number(r?.passed ?? 0), failed: Number(r?.failed ?? 0) });
-  }
-  return months;
+  return new Map(rows.map((r) => [r.month, { month: r.month, filed: Number(r.filed), passed: Number(r.passed ?? 0), failed: Number(r.failed ?? 0) }]));
 }
 
 export const overdueListSchema = complianceFilterSchema.extend({
