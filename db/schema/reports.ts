@@ -1,6 +1,6 @@
 import { boolean, date, datetime, decimal, index, int, json, mysqlEnum, mysqlTable, primaryKey, smallint, text, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { certifications, testKits } from "./credentials";
-import { assemblies } from "./inventory";
+import { assemblies, assemblyKinds } from "./inventory";
 import { programs } from "./programs";
 import { users } from "./users";
 
@@ -41,6 +41,8 @@ export const testReports = mysqlTable(
     kitId: int({ unsigned: true }).references(() => testKits.id),
     certificationId: int({ unsigned: true }).references(() => certifications.id),
     status: mysqlEnum(reportStatuses).notNull(),
+    /** The kind of assembly tested (as in the snapshot), so the queue filters by kind from an index. */
+    assemblyKind: mysqlEnum(assemblyKinds).notNull(),
     /** Local wall-clock time of the test as the tester entered it. */
     testedAt: datetime().notNull(),
     testedOn: date({ mode: "string" }).notNull(),
@@ -88,6 +90,7 @@ export const testReports = mysqlTable(
     uniqueIndex("test_reports_idempotency_uq").on(t.testerId, t.idempotencyKey),
     uniqueIndex("test_reports_verification_uq").on(t.verificationCode),
     index("test_reports_queue_idx").on(t.programId, t.status, t.submittedAt),
+    index("test_reports_queue_kind_idx").on(t.programId, t.status, t.assemblyKind, t.submittedAt),
     index("test_reports_tester_idx").on(t.testerId, t.submittedAt),
     index("test_reports_tester_time_idx").on(t.testerId, t.testedAt),
     index("test_reports_assembly_idx").on(t.assemblyId, t.testedOn),

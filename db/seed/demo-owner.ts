@@ -109,6 +109,7 @@ export async function seedDemoOwner(db: Database, { anchor }: Context): Promise<
           kitId: kit.id,
           certificationId: certification.id,
           status: test.status,
+          assemblyKind: plan.kind,
           testedAt,
           testedOn: test.on,
           reason: "annual",

@@ -413,6 +413,7 @@ export async function seedDemo(db: Database, options: DemoOptions): Promise<Reco
       kitId: kit.id,
       certificationId: tester.certificationId,
       status,
+      assemblyKind: assembly.kind,
       testedAt: localDateTime(args.testedOn, args.minutes),
       testedOn: args.testedOn,
       reason: args.reason,

@@ -170,7 +170,7 @@ export async function seedScale(options: ScaleOptions): Promise<Record<string, n
 
   // Assemblies and their ten years of reports, a chunk at a time.
   const assemblyCols = ["id", "program_id", "site_id", "kind", "make", "model", "size", "serial", "location", "hazard", "installed_on", "status", "base_state", "last_tested_on", "last_outcome", "last_passed_on", "next_due_on", "repair_due_on", "created_at", "updated_at"];
-  const reportCols = ["id", "program_id", "report_number", "revision", "assembly_id", "tester_id", "kit_id", "certification_id", "status", "tested_at", "tested_on", "reason", "installation", "line_pressure_psi", "unit", "rule_set_edition", "assembly_snapshot", "tester_snapshot", "kit_snapshot", "initial_outcome", "final_outcome", "was_repaired", "grade", "validity", "signals", "warning_count", "is_clean", "fingerprint", "attested_name", "attested_at", "submitted_at", "idempotency_key", "fee_cents", "fee_status", "decided_at", "decided_by", "verification_code", "created_at", "updated_at"];
+  const reportCols = ["id", "program_id", "report_number", "revision", "assembly_id", "tester_id", "kit_id", "certification_id", "status", "assembly_kind", "tested_at", "tested_on", "reason", "installation", "line_pressure_psi", "unit", "rule_set_edition", "assembly_snapshot", "tester_snapshot", "kit_snapshot", "initial_outcome", "final_outcome", "was_repaired", "grade", "validity", "signals", "warning_count", "is_clean", "fingerprint", "attested_name", "attested_at", "submitted_at", "idempotency_key", "fee_cents", "fee_status", "decided_at", "decided_by", "verification_code", "created_at", "updated_at"];
   const readingCols = ["report_id", "phase", "relief_opening", "relief_did_not_open", "check1", "check1_tight", "check2", "check2_tight", "shutoff2_tight", "air_inlet_opening", "air_inlet_did_not_open", "air_inlet_fully_open", "check_differential", "check_tight", "air_gap_inches", "pipe_diameter_inches", "near_side_wall", "outcome"];
   const reviewCols = ["report_id", "inspector_id", "decision", "reasons", "decided_at"];
   const rules = defaultProgramRules;
@@ -226,7 +226,7 @@ export async function seedScale(options: ScaleOptions): Promise<Record<string, n
         const decidedAt = isQueued ? null : new Date(submittedAt.getTime() + rng.int(2, 60) * 3_600_000);
         const inspectorId = inspectors[reportId % inspectors.length]!;
         reportRows.push([
-          reportId, 1, `GQ-${year}-${String(seq).padStart(6, "0")}`, 1, a, testerId, testerIndex + 1, testerIndex + 1, isQueued ? "queued" : "accepted",
+          reportId, 1, `GQ-${year}-${String(seq).padStart(6, "0")}`, 1, a, testerId, testerIndex + 1, testerIndex + 1, isQueued ? "queued" : "accepted", kind,
           testedAt, testedOn, guard === 0 ? "installation" : "annual", "existing", 60 + (a % 40), "psid", defaultRuleSet.edition,
           JSON.stringify({ kind, make: maker.make, model, size: "1 in", serial, location: "service line", hazard, siteName: `Site ${siteId}`, address: `${siteId} ${streetNames[(siteId * 31) % streetNames.length]}, Quillmere`, accountNumber: `GQ${String(siteId).padStart(7, "0")}` }),
           JSON.stringify({ name: `Tester ${testerIndex + 1}`, company: null, certifyingBody: "Regional Backflow Tester Board", certificationNumber: `RB-${100000 + testerIndex}`, certificationExpiresOn: addDays(anchor, 200) }),

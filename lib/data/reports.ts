@@ -353,6 +353,7 @@ async function fileReport(tx: Transaction, actor: Actor, input: ReportSubmission
       kitId: kit.id,
       certificationId: cert?.id ?? null,
       status,
+      assemblyKind: a.kind,
       testedAt,
       testedOn: input.testedOn,
       reason: input.reason,

@@ -81,7 +81,7 @@ export interface QueuePage {
 /** The shared WHERE of the queue and a filter. */
 function queueConditions(programId: number, filter: QueueFilter, now: Date): SQL[] {
   const where: SQL[] = [eq(testReports.programId, programId), eq(testReports.status, "queued")];
-  if (filter.kind) where.push(eq(assemblies.kind, filter.kind));
+  if (filter.kind) where.push(eq(testReports.assemblyKind, filter.kind));
   if (filter.grade === "pass") where.push(eq(testReports.finalOutcome, "pass"), eq(testReports.wasRepaired, false));
   if (filter.grade === "fail") where.push(eq(testReports.finalOutcome, "fail"));
   if (filter.grade === "repaired") where.push(eq(testReports.finalOutcome, "pass"), eq(testReports.wasRepaired, true));
@@ -98,10 +98,6 @@ function queueConditions(programId: number, filter: QueueFilter, now: Date): SQL
     );
   }
   return where;
-}
-
-function needsAssemblyJoin(filter: QueueFilter): boolean {
-  return Boolean(filter.kind);
 }
 
 interface Cursor {
@@ -231,9 +227,8 @@ export async function listReviewQueue(actor: Actor, query: QueuePageQuery, now =
 
 async function countMatching(programId: number, filter: QueueFilter, now: Date): Promise<number> {
   const db = getDb();
-  const base = db.select({ n: count() }).from(testReports);
-  const query = needsAssemblyJoin(filter) ? base.innerJoin(assemblies, eq(assemblies.id, testReports.assemblyId)) : base;
-  const [row] = await query.where(and(...queueConditions(programId, filter, now)));
+  // Every filter is on the report itself (it carries the kind it tested): no join to count.
+  const [row] = await db.select({ n: count() }).from(testReports).where(and(...queueConditions(programId, filter, now)));
   return Number(row?.n ?? 0);
 }
 
@@ -249,9 +244,9 @@ export async function listCleanPassIds(actor: Actor, filter: QueueFilter, now = 
   const programId = staffProgramId(actor);
   const clean = { ...filter, flags: "clean" as const };
   const where = [...queueConditions(programId, clean, now), eq(testReports.finalOutcome, "pass")];
-  const base = getDb().select({ id: testReports.id }).from(testReports);
-  const query = needsAssemblyJoin(filter) ? base.innerJoin(assemblies, eq(assemblies.id, testReports.assemblyId)) : base;
-  const rows = await query
+  const rows = await getDb()
+    .select({ id: testReports.id })
+    .from(testReports)
     .where(and(...where))
     .orderBy(asc(testReports.submittedAt), asc(testReports.id))
     .limit(CLEAN_PASS_LIMIT + 1);

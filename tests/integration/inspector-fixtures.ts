@@ -146,6 +146,7 @@ export async function createReport(options: {
       assemblyId: options.assemblyId,
       testerId: options.tester.id,
       status: options.status ?? "queued",
+      assemblyKind: initial.kind,
       testedAt: new Date(`${testedOn}T10:30:00Z`),
       testedOn,
       reason: "annual",
