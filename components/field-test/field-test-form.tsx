@@ -9,7 +9,7 @@ import type { FieldTestContext } from "@/lib/data/tester-field-test";
 import { describeSaveStatus, findResumableDraft, interpretSubmitResponse, pickFresherDraft, type StoredDraft } from "@/lib/forms/draft-sync";
 import { buildSubmission, evaluateDraft, newDraft, parseLinePressure, type DraftContext, type FieldTestDraft } from "@/lib/forms/field-test-draft";
 import { componentLabels, type ComponentRepairDraft, type RepairComponent } from "@/lib/forms/repairs";
-import { installationKinds, installationLabels, reasonLabels, testReasons } from "@/lib/forms/report-submission";
+import { installationKinds, installationLabels, reasonLabels, testReasons } from "@/lib/forms/report-options";
 import { todayInZone } from "@/lib/programs/settings";
 import { addDays, assemblyKindLabels, familyOf, fieldLabels, hazardLabels, type FieldTestField } from "@/lib/rules";
 import { newClientKey } from "./client-keys";

@@ -5,7 +5,8 @@ import { getDb } from "@/db/client";
 import { assemblies, reportDrafts, sites } from "@/db/schema";
 import { assertCan, type Actor } from "@/lib/auth/permissions";
 import { InputError, isDuplicateKey, NotFoundError } from "@/lib/errors";
-import { fieldTestDraftSchema, type FieldTestDraft } from "@/lib/forms/field-test-draft";
+import type { FieldTestDraft } from "@/lib/forms/field-test-draft";
+import { fieldTestDraftSchema } from "@/lib/forms/field-test-draft-schema";
 import { requireApprovedProgram } from "./tester-programs";
 
 export const draftSaveSchema = z.object({

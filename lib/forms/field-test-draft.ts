@@ -1,11 +1,11 @@
 // A field-test report while the tester fills it in: the draft as saved on the phone and on the
 // server, what it still lacks, the live grade of each phase, and the submission body it becomes.
 // Pure: no clock (today is an argument), no storage, no network.
-import { z } from "zod";
 import { addMonths, checkReportValidity, familyOf, isIsoDate, kpaToPsid, type AssemblyKind, type FieldTestInput, type KitPolicy, type ReadingUnit, type RuleSet } from "@/lib/rules";
 import { emptyPhase, gradePhase, phaseToInput, readingFieldsFor, type PhaseDraft, type PhaseGrade } from "./readings";
 import { findRepairProblems, repairRowsFromDraft, repairComponents, repairParts, repairActions, type ComponentRepairDraft } from "./repairs";
-import { installationKinds, testReasons, type ReportSubmissionInput, type SubmittedReadings, type TestReason } from "./report-submission";
+import { installationKinds, testReasons, type TestReason } from "./report-options";
+import type { ReportSubmissionInput, SubmittedReadings } from "./report-submission";
 
 export interface FieldTestDraft {
   v: 1;
@@ -72,52 +72,61 @@ export function newDraft(args: {
   };
 }
 
-const fieldRecord = <T extends z.ZodType>(value: T) => z.record(z.string().max(40), value);
-const phaseSchema = z.object({
-  text: fieldRecord(z.string().max(20)),
-  flags: fieldRecord(z.boolean()),
-  didNotOpen: fieldRecord(z.boolean()),
-});
-
-/** What a saved draft may hold (checked on the server before storing, and on loading one). */
-export const fieldTestDraftSchema = z.object({
-  v: z.literal(1),
-  assemblyId: z.number().int().positive(),
-  kind: z.enum(["RP", "RPDA", "DC", "DCDA", "PVB", "SVB", "AG"]),
-  unit: z.enum(["psid", "kPa"]),
-  correctsReportId: z.number().int().positive().nullable(),
-  amendsReportId: z.number().int().positive().nullable(),
-  kitId: z.number().int().positive().nullable(),
-  testedOn: z.string().max(10),
-  testedTime: z.string().max(5),
-  reason: z.enum([...testReasons, ""]),
-  reasonNote: z.string().max(300),
-  installation: z.enum(installationKinds),
-  previousSerial: z.string().max(60),
-  orientationApproved: z.boolean().nullable(),
-  reliefPortAirGapOk: z.boolean().nullable(),
-  linePressure: z.string().max(20),
-  initial: phaseSchema,
-  repairChoice: z.enum(["repaired", "not_repaired"]).nullable(),
-  repairs: z
-    .array(
-      z.object({
-        component: z.enum(repairComponents),
-        parts: z.partialRecord(z.enum(repairParts), z.enum(repairActions)),
-        note: z.string().max(300),
-      }),
-    )
-    .max(12),
-  retest: phaseSchema,
-  remarks: z.string().max(2000),
-  attestationName: z.string().max(120),
-  attestationConfirmed: z.boolean(),
-});
-
-/** A draft read back from storage, or null when it is not one (an older format, tampering). */
+/**
+ * A draft read back from the phone's storage, or null when it is not one (an older format,
+ * tampering). A hand-written structural check with the same limits as the server's zod schema
+ * (lib/forms/field-test-draft-schema.ts; a unit test holds the two to the same verdicts), so
+ * the form never ships a validation library to the browser.
+ */
 export function parseDraft(value: unknown): FieldTestDraft | null {
-  const parsed = fieldTestDraftSchema.safeParse(value);
-  return parsed.success ? parsed.data : null;
+  return isFieldTestDraft(value) ? value : null;
+}
+
+const isRecord = (v: unknown): v is Record<string, unknown> => typeof v === "object" && v !== null && !Array.isArray(v);
+const isText = (v: unknown, max: number): v is string => typeof v === "string" && v.length <= max;
+const isId = (v: unknown): v is number => typeof v === "number" && Number.isSafeInteger(v) && v > 0;
+const isOneOf = <T extends string>(v: unknown, options: readonly T[]): v is T => typeof v === "string" && (options as readonly string[]).includes(v);
+const isNullable = (v: unknown, check: (x: unknown) => boolean) => v === null || check(v);
+const isBooleanOrNull = (v: unknown) => v === null || typeof v === "boolean";
+const isFieldMap = (v: unknown, check: (x: unknown) => boolean) => isRecord(v) && Object.entries(v).every(([k, x]) => k.length <= 40 && check(x));
+const isPhase = (v: unknown) =>
+  isRecord(v) && isFieldMap(v.text, (x) => isText(x, 20)) && isFieldMap(v.flags, (x) => typeof x === "boolean") && isFieldMap(v.didNotOpen, (x) => typeof x === "boolean");
+const isRepair = (v: unknown) =>
+  isRecord(v) &&
+  isOneOf(v.component, repairComponents) &&
+  isRecord(v.parts) &&
+  Object.entries(v.parts).every(([part, action]) => isOneOf(part, repairParts) && isOneOf(action, repairActions)) &&
+  isText(v.note, 300);
+
+function isFieldTestDraft(v: unknown): v is FieldTestDraft {
+  return (
+    isRecord(v) &&
+    v.v === 1 &&
+    isId(v.assemblyId) &&
+    isOneOf(v.kind, ["RP", "RPDA", "DC", "DCDA", "PVB", "SVB", "AG"] as const) &&
+    isOneOf(v.unit, ["psid", "kPa"] as const) &&
+    isNullable(v.correctsReportId, isId) &&
+    isNullable(v.amendsReportId, isId) &&
+    isNullable(v.kitId, isId) &&
+    isText(v.testedOn, 10) &&
+    isText(v.testedTime, 5) &&
+    isOneOf(v.reason, [...testReasons, ""] as const) &&
+    isText(v.reasonNote, 300) &&
+    isOneOf(v.installation, installationKinds) &&
+    isText(v.previousSerial, 60) &&
+    isBooleanOrNull(v.orientationApproved) &&
+    isBooleanOrNull(v.reliefPortAirGapOk) &&
+    isText(v.linePressure, 20) &&
+    isPhase(v.initial) &&
+    isNullable(v.repairChoice, (x) => isOneOf(x, ["repaired", "not_repaired"] as const)) &&
+    Array.isArray(v.repairs) &&
+    v.repairs.length <= 12 &&
+    v.repairs.every(isRepair) &&
+    isPhase(v.retest) &&
+    isText(v.remarks, 2000) &&
+    isText(v.attestationName, 120) &&
+    typeof v.attestationConfirmed === "boolean"
+  );
 }
 
 /** Everything outside the draft that decides whether it can be filed. */

@@ -5,23 +5,8 @@ import { z } from "zod";
 import { isIsoDate } from "@/lib/rules";
 import { repairActions, repairComponents, repairParts } from "./repairs";
 
-export const testReasons = ["annual", "installation", "repair", "relocation", "incident", "other"] as const;
-export type TestReason = (typeof testReasons)[number];
-export const reasonLabels: Readonly<Record<TestReason, string>> = Object.freeze({
-  annual: "Annual test",
-  installation: "New installation",
-  repair: "After repair",
-  relocation: "Relocation or reinstallation",
-  incident: "After a backflow incident",
-  other: "Other",
-});
-
-export const installationKinds = ["existing", "new", "replacement"] as const;
-export const installationLabels: Readonly<Record<(typeof installationKinds)[number], string>> = Object.freeze({
-  existing: "Existing assembly",
-  new: "New installation",
-  replacement: "Replaces another assembly",
-});
+export { installationKinds, installationLabels, reasonLabels, testReasons, type TestReason } from "./report-options";
+import { installationKinds, testReasons } from "./report-options";
 
 /** A client's key for one submission or one draft: random, URL-safe. */
 export const clientKeySchema = z.string().regex(/^[A-Za-z0-9_-]{16,64}$/, { message: "The form's key is malformed; reload the page." });

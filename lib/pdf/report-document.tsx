@@ -5,7 +5,7 @@ import { fieldOfRule, readingFieldsFor } from "@/lib/forms/readings";
 import { actionLabels, componentLabels, partLabels, type RepairAction, type RepairComponent, type RepairPart } from "@/lib/forms/repairs";
 import { describeObserved, describeRequired } from "@/lib/forms/report-display";
 import { describeOutcome, reportStatusLabels } from "@/lib/forms/report-status";
-import { installationLabels, reasonLabels, type TestReason } from "@/lib/forms/report-submission";
+import { installationLabels, reasonLabels, type TestReason } from "@/lib/forms/report-options";
 import { assemblyKindLabels, defaultRuleSet, fieldLabels, formatPsid, formatReading, hazardLabels, psidToKpa, type FieldTestField, type FieldTestInput, type Hazard } from "@/lib/rules";
 import type { DisplayPhase } from "@/lib/reports/grade-storage";
 import { pdfColors, pdfStyles } from "./theme";

@@ -11,7 +11,7 @@ import { getMyReportHistory } from "@/lib/data/tester-reports";
 import { NotFoundError } from "@/lib/errors";
 import { actionLabels, componentLabels, partLabels, type RepairAction, type RepairComponent, type RepairPart } from "@/lib/forms/repairs";
 import { reportStatusLabels } from "@/lib/forms/report-status";
-import { installationLabels, reasonLabels, type TestReason } from "@/lib/forms/report-submission";
+import { installationLabels, reasonLabels, type TestReason } from "@/lib/forms/report-options";
 import { assemblyKindLabels, formatPsid, psidToKpa } from "@/lib/rules";
 
 export const metadata: Metadata = { title: "Report" };
