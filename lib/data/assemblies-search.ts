@@ -2,6 +2,7 @@ import "server-only";
 import { and, asc, eq, inArray, like, sql } from "drizzle-orm";
 import { z } from "zod";
 import { getDb } from "@/db/client";
+import { unionAll } from "drizzle-orm/mysql-core";
 import { assemblies, programs, sites } from "@/db/schema";
 import { assertCan, type Actor } from "@/lib/auth/permissions";
 import { ConflictError, InputError, NotFoundError } from "@/lib/errors";
@@ -73,7 +74,8 @@ const hitColumns = {
   lastOutcome: assemblies.lastOutcome,
   nextDueOn: assemblies.nextDueOn,
   repairDueOn: assemblies.repairDueOn,
-  siteId: sites.id,
+  // Named apart from assemblies.id: the branches are joined by UNION, whose columns need distinct names.
+  siteId: sql<number>`${sites.id}`.as("site_id"),
   siteName: sites.name,
   addressLine1: sites.addressLine1,
   city: sites.city,
@@ -93,13 +95,14 @@ export async function searchAssemblies(actor: Actor, input: z.infer<typeof assem
   const pattern = prefixPattern(query);
   const db = getDb();
   const inService = inArray(assemblies.status, ["active", "awaiting_confirmation"]);
-  // One query per program and per column, ordered by the column it matches: each reads its
+  // One branch per program and per column, ordered by the column it matches: each reads its
   // LIMIT rows straight off a (program_id, column) index range and stops, however many
   // thousands of serials share the typed prefix. Ordering by anything else, or spanning two
-  // programs in one query, would make the database gather and sort every match.
-  const run = (programId: number, column: typeof assemblies.serial | typeof sites.accountNumber | typeof sites.addressLine1 | typeof sites.name) =>
+  // programs in one branch, would make the database gather and sort every match. The branches
+  // go as one UNION ALL statement: one round trip to the database for the whole search.
+  const branch = (programId: number, column: typeof assemblies.serial | typeof sites.accountNumber | typeof sites.addressLine1 | typeof sites.name, matchedOn: MatchedOn) =>
     db
-      .select(hitColumns)
+      .select({ ...hitColumns, matchedOn: sql<MatchedOn>`${matchedOn}`.as("matched_on") })
       // Left to itself the optimizer walks the serial index from the program's first serial
       // (a "ref" on program_id) instead of seeking to the prefix: the hint makes it a range.
       .from(assemblies, column === assemblies.serial ? { forceIndex: "assemblies_serial_idx" } : undefined)
@@ -108,23 +111,26 @@ export async function searchAssemblies(actor: Actor, input: z.infer<typeof assem
       .where(and(column === assemblies.serial ? eq(assemblies.programId, programId) : eq(sites.programId, programId), like(column, pattern), inService))
       .orderBy(asc(column))
       .limit(PER_QUERY_LIMIT);
-  const columns = [assemblies.serial, sites.accountNumber, sites.addressLine1, sites.name] as const;
-  const results = await Promise.all(columns.map((column) => Promise.all(scope.map((programId) => run(programId, column)))));
-  const [bySerial, byAccount, byAddress, byName] = results.map((perProgram) => perProgram.flat()) as [Awaited<ReturnType<typeof run>>, Awaited<ReturnType<typeof run>>, Awaited<ReturnType<typeof run>>, Awaited<ReturnType<typeof run>>];
+  const columns = [
+    [assemblies.serial, "serial"],
+    [sites.accountNumber, "account"],
+    [sites.addressLine1, "address"],
+    [sites.name, "site_name"],
+  ] as const;
+  // Four columns, so always at least two branches.
+  const [first, second, ...others] = columns.flatMap(([column, matchedOn]) => scope.map((programId) => branch(programId, column, matchedOn)));
+  const rows = await unionAll(first!, second!, ...others);
+  // Serial matches first, then account, address and site name, each in its column's order.
+  const rank: Record<MatchedOn, number> = { serial: 0, account: 1, address: 2, site_name: 3 };
+  const ordered = rows.map((row, index) => ({ row, index })).sort((a, b) => rank[a.row.matchedOn] - rank[b.row.matchedOn] || a.index - b.index);
   const seen = new Set<number>();
   const hits: AssemblySearchHit[] = [];
-  const add = (rows: typeof bySerial, matchedOn: MatchedOn) => {
-    for (const row of rows) {
-      if (seen.has(row.id) || hits.length >= RESULT_LIMIT) continue;
-      seen.add(row.id);
-      const { siteId, siteName, addressLine1, city, accountNumber, ...rest } = row;
-      hits.push({ ...rest, site: { id: siteId, name: siteName, addressLine1, city, accountNumber }, matchedOn });
-    }
-  };
-  add(bySerial, "serial");
-  add(byAccount, "account");
-  add(byAddress, "address");
-  add(byName, "site_name");
+  for (const { row } of ordered) {
+    if (seen.has(row.id) || hits.length >= RESULT_LIMIT) continue;
+    seen.add(row.id);
+    const { siteId, siteName, addressLine1, city, accountNumber, ...hit } = row;
+    hits.push({ ...hit, site: { id: siteId, name: siteName, addressLine1, city, accountNumber } });
+  }
   return { hits, query };
 }
 
