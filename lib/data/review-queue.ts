@@ -156,7 +156,8 @@ export async function listReviewQueue(actor: Actor, query: QueuePageQuery, now =
   }
   const order = isDescending ? [desc(column), desc(testReports.id)] : [asc(column), asc(testReports.id)];
 
-  const rows = await db
+  // The page and both counts at once: two statements in flight, one wait.
+  const pageQuery = db
     .select({
       id: testReports.id,
       reportNumber: testReports.reportNumber,
@@ -182,14 +183,10 @@ export async function listReviewQueue(actor: Actor, query: QueuePageQuery, now =
     .where(and(...where))
     .orderBy(...order)
     .limit(query.limit + 1);
-
+  const [rows, counts] = await Promise.all([pageQuery, countQueue(programId, query, now)]);
   const hasMore = rows.length > query.limit;
   const pageRows = rows.slice(0, query.limit);
   const last = pageRows.at(-1);
-  const [totals, matching] = await Promise.all([
-    db.select({ n: count() }).from(testReports).where(and(eq(testReports.programId, programId), eq(testReports.status, "queued"))),
-    countMatching(programId, query, now),
-  ]);
   return {
     rows: pageRows.map((r) => {
       const site = r.assemblySnapshot as AssemblySnapshot;
@@ -219,17 +216,20 @@ export async function listReviewQueue(actor: Actor, query: QueuePageQuery, now =
         isClean: r.isClean,
       };
     }),
-    total: Number(totals[0]?.n ?? 0),
-    matching,
+    total: counts.total,
+    matching: counts.matching,
     nextCursor: hasMore && last ? encodeCursor({ v: byTested ? last.testedOn : last.submittedAt.toISOString(), id: last.id }) : null,
   };
 }
 
-async function countMatching(programId: number, filter: QueueFilter, now: Date): Promise<number> {
+/** Everything queued and what the filter matches, in one statement: each count reads its own index range. */
+async function countQueue(programId: number, filter: QueueFilter, now: Date): Promise<{ total: number; matching: number }> {
   const db = getDb();
+  const all = db.select({ n: count() }).from(testReports).where(and(eq(testReports.programId, programId), eq(testReports.status, "queued")));
   // Every filter is on the report itself (it carries the kind it tested): no join to count.
-  const [row] = await db.select({ n: count() }).from(testReports).where(and(...queueConditions(programId, filter, now)));
-  return Number(row?.n ?? 0);
+  const matching = db.select({ n: count() }).from(testReports).where(and(...queueConditions(programId, filter, now)));
+  const [row] = await db.select({ total: sql<number>`(${all})`, matching: sql<number>`(${matching})` }).from(sql`DUAL`);
+  return { total: Number(row?.total ?? 0), matching: Number(row?.matching ?? 0) };
 }
 
 /** The largest set "accept all clean passes" takes in one confirmation. */
