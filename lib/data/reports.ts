@@ -165,7 +165,8 @@ function checkRepairsOrThrow(kind: AssemblyKind, repairs: ReportSubmission["repa
 
 /**
  * The next number of the program's year. The year's row is locked for the rest of the
- * transaction, so concurrent submissions queue for it and each gets its own number; the first
+ * transaction, so concurrent submissions queue for it and each gets its own number (call it as
+ * late in the transaction as possible: the lock is the one every submission shares); the first
  * number of a year starts above any already used (history loaded before this table existed).
  */
 async function allocateReportNumber(tx: Transaction, program: TesterProgram, year: number): Promise<string> {
@@ -337,14 +338,20 @@ async function fileReport(tx: Transaction, actor: Actor, input: ReportSubmission
   const status = feeCents > 0 ? "awaiting_fee" : "queued";
   const finalOutcome = grade.outcome === "pass" ? "pass" : "fail";
   const warningCount = validity.length + signals.length;
-  const reportNumber = basis && input.correctsReportId !== null ? basis.reportNumber : await allocateReportNumber(tx, program, Number(input.testedOn.slice(0, 4)));
-  const revision = basis && input.correctsReportId !== null ? basis.revision + 1 : 1;
+  // A correction keeps the returned report's number, with the next revision.
+  const corrected = input.correctsReportId !== null ? basis : null;
+  const revision = corrected ? corrected.revision + 1 : 1;
+  // Unguessable, printed on the report so the program can confirm a paper copy is genuine.
+  const verificationCode = generateReadableCode(16);
+  // A new report's number is taken last, just before commit (see below): until then the row
+  // carries a stand-in unique to it, seen by no other transaction.
+  const provisionalNumber = corrected ? corrected.reportNumber : `~${verificationCode}`;
   const now = new Date();
   const [inserted] = await tx
     .insert(testReports)
     .values({
       programId: program.id,
-      reportNumber,
+      reportNumber: provisionalNumber,
       revision,
       supersedesId: input.correctsReportId,
       amendsId: input.amendsReportId,
@@ -385,8 +392,7 @@ async function fileReport(tx: Transaction, actor: Actor, input: ReportSubmission
       feeCents,
       feeCurrency: program.settings.currency,
       feeStatus: feeCents > 0 ? "owed" : "none",
-      // Unguessable, printed on the report so the program can confirm a paper copy is genuine.
-      verificationCode: generateReadableCode(16),
+      verificationCode,
       createdAt: now,
       updatedAt: now,
     })
@@ -400,6 +406,11 @@ async function fileReport(tx: Transaction, actor: Actor, input: ReportSubmission
     await recordAudit(tx, { programId: program.id, actorId: actor.id, action: "report.superseded", entityType: "test_report", entityId: basis.id, before: { status: "returned" }, after: { status: "superseded", supersededBy: reportId } });
   }
   if (input.draftKey) await tx.delete(reportDrafts).where(and(eq(reportDrafts.testerId, actor.id), eq(reportDrafts.clientKey, input.draftKey)));
+  await recomputeAssemblyFacts(tx, a.id);
+  // The year's number row stays locked from here to commit, so concurrent submissions queue for
+  // it: taking it last keeps that queue short (numbers stay consecutive, with no gaps).
+  const reportNumber = corrected ? corrected.reportNumber : await allocateReportNumber(tx, program, Number(input.testedOn.slice(0, 4)));
+  if (!corrected) await tx.update(testReports).set({ reportNumber }).where(eq(testReports.id, reportId));
   await recordAudit(tx, {
     programId: program.id,
     actorId: actor.id,
@@ -408,6 +419,5 @@ async function fileReport(tx: Transaction, actor: Actor, input: ReportSubmission
     entityId: reportId,
     after: { reportNumber, revision, status, finalOutcome, warningCount, supersedesId: input.correctsReportId, amendsId: input.amendsReportId, assemblyId: a.id },
   });
-  await recomputeAssemblyFacts(tx, a.id);
   return { id: reportId, reportNumber, revision, status, finalOutcome, isReplay: false };
 }
