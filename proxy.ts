@@ -41,8 +41,8 @@ export function proxy(request: NextRequest) {
   return response;
 }
 
-// Uploads skip the proxy: it would buffer (and cut) large request bodies, and the file
-// routes send their own restrictive headers.
+// Route handlers (/api/…) skip the proxy: their fixed security headers come from
+// next.config.ts, and the proxy would buffer (and cut) large upload bodies.
 export const config = {
-  matcher: [{ source: "/((?!_next/static|_next/image|icon.svg|logo-mark.svg|favicon.ico|api/files$).*)" }],
+  matcher: [{ source: "/((?!_next/static|_next/image|icon.svg|logo-mark.svg|favicon.ico|api/).*)" }],
 };
