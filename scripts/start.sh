@@ -60,7 +60,7 @@ if [ "$MODE" = "dev" ]; then
   APP_PID=$!
 else
   build_app
-  setsid node node_modules/next/dist/bin/next start -H 127.0.0.1 -p "$PORT" &
+  setsid node --max-semi-space-size=64 node_modules/next/dist/bin/next start -H 127.0.0.1 -p "$PORT" &
   APP_PID=$!
 fi
 

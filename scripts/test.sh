@@ -63,7 +63,7 @@ start_payments "$TEST_DATA/payments" "$PAYMENTS_PORT" "$APP_URL/api/fees/webhook
 
 BUILD_LOG="$TEST_DATA/build.log" build_app
 assert_port_free "$APP_PORT"
-setsid node node_modules/next/dist/bin/next start -H 127.0.0.1 -p "$APP_PORT" >"$TEST_DATA/app.log" 2>&1 &
+setsid node --max-semi-space-size=64 node_modules/next/dist/bin/next start -H 127.0.0.1 -p "$APP_PORT" >"$TEST_DATA/app.log" 2>&1 &
 APP_PID=$!
 export TEST_APP_PID="$APP_PID"
 wait_http "$APP_URL/api/health" "$APP_PID" || { tail -40 "$TEST_DATA/app.log"; fail "the app did not start for the tests"; }
