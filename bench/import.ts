@@ -119,6 +119,7 @@ async function main() {
     console.log(`[bench:import] in the database: ${counts[0]?.sites} sites, ${counts[0]?.assemblies} assemblies, ${counts[0]?.owners} owners`);
     const second = await importOnce(actor, bytes, header);
     console.log(`[bench:import] same file again: ${second.seconds.toFixed(1)} s — ${second.job.insertedRows} new, ${second.job.updatedRows} updated, ${second.job.unchangedRows} unchanged (no duplicates expected)`);
+    console.log(`BENCH_RESULT ${JSON.stringify({ rows: ROWS, firstSeconds: first.seconds, inserted: first.job.insertedRows, failed: first.job.failedRows, againSeconds: second.seconds, againInserted: second.job.insertedRows, sites: Number(counts[0]?.sites), assemblies: Number(counts[0]?.assemblies) })}`);
   } finally {
     if (KEEP) console.log(`[bench:import] kept scratch program ${programId}`);
     else await removeScratchProgram(programId, actor.id);

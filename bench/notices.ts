@@ -157,6 +157,7 @@ async function main() {
     const again = Date.now();
     const rerun = await runNoticesForProgram(programId, { trigger: "schedule" });
     log(`a second run the same day: planned ${rerun.planned}, sent ${rerun.sent}, in ${seconds(Date.now() - again)} s`);
+    console.log(`BENCH_RESULT ${JSON.stringify({ assemblies: ASSEMBLIES, planned: summary.planned, sent: summary.sent, failed: summary.failed, letters: summary.letters, sendSeconds: emailed / 1000, totalSeconds: total / 1000, rerunSent: rerun.sent })}`);
   } finally {
     await closeDb();
     standIn.stop();

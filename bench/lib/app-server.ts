@@ -11,7 +11,7 @@ export interface RunningApp {
 
 export async function startApp(options: { databaseUrl: string; port: number; env?: Record<string, string> }): Promise<RunningApp> {
   const url = `http://127.0.0.1:${options.port}`;
-  const child: ChildProcess = spawn("node", ["node_modules/next/dist/bin/next", "start", "-H", "127.0.0.1", "-p", String(options.port)], {
+  const child: ChildProcess = spawn("node", ["--max-semi-space-size=64", "node_modules/next/dist/bin/next", "start", "-H", "127.0.0.1", "-p", String(options.port)], {
     env: { ...process.env, DATABASE_URL: options.databaseUrl, APP_URL: url, COOKIE_SECURE: "false", NEXT_TELEMETRY_DISABLED: "1", DB_POOL_SIZE: "40", ...options.env },
     stdio: ["ignore", "ignore", "inherit"],
     detached: true,
