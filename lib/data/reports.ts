@@ -285,7 +285,13 @@ async function fileReport(tx: Transaction, actor: Actor, input: ReportSubmission
   const testedAt = new Date(`${input.testedOn}T${input.testedTime}:00Z`);
   const windowMs = defaultSignalOptions.burstWindowMinutes * 60_000;
   const excluded = basis ? ne(testReports.id, basis.id) : undefined;
-  const [[previous], nearby, sameDay] = await Promise.all([
+  // The tester's other tests near this one and on the same day come from one range: the span
+  // covering both the burst window around the test and its whole day.
+  const burstFrom = testedAt.getTime() - windowMs;
+  const burstTo = testedAt.getTime() + windowMs;
+  const dayFrom = new Date(`${input.testedOn}T00:00:00Z`).getTime();
+  const dayTo = dayFrom + 86_400_000;
+  const [[previous], testerTests] = await Promise.all([
     tx
       .select({ testedOn: testReports.testedOn, fingerprint: testReports.fingerprint })
       .from(testReports)
@@ -293,23 +299,20 @@ async function fileReport(tx: Transaction, actor: Actor, input: ReportSubmission
       .orderBy(desc(testReports.testedOn), desc(testReports.submittedAt))
       .limit(1),
     tx
-      .select({ reportId: testReports.id, testedAt: testReports.testedAt })
+      .select({ reportId: testReports.id, assemblyId: testReports.assemblyId, fingerprint: testReports.fingerprint, testedAt: testReports.testedAt })
       .from(testReports)
-      .where(and(eq(testReports.testerId, actor.id), gte(testReports.testedAt, new Date(testedAt.getTime() - windowMs)), lte(testReports.testedAt, new Date(testedAt.getTime() + windowMs)), inArray(testReports.status, standingStatuses), excluded))
-      .limit(200),
-    tx
-      .select({ reportId: testReports.id, assemblyId: testReports.assemblyId, fingerprint: testReports.fingerprint })
-      .from(testReports)
-      .where(and(eq(testReports.testerId, actor.id), gte(testReports.testedAt, new Date(`${input.testedOn}T00:00:00Z`)), lt(testReports.testedAt, new Date(new Date(`${input.testedOn}T00:00:00Z`).getTime() + 86_400_000)), inArray(testReports.status, standingStatuses), excluded))
-      .limit(500),
+      .where(and(eq(testReports.testerId, actor.id), gte(testReports.testedAt, new Date(Math.min(burstFrom, dayFrom))), lt(testReports.testedAt, new Date(Math.max(burstTo + 1, dayTo))), inArray(testReports.status, standingStatuses), excluded))
+      .limit(700),
   ]);
+  const nearby = testerTests.filter((t) => t.testedAt.getTime() >= burstFrom && t.testedAt.getTime() <= burstTo).slice(0, 200);
+  const sameDay = testerTests.filter((t) => t.testedAt.getTime() >= dayFrom && t.testedAt.getTime() < dayTo).slice(0, 500);
   // Certification and kit validity are already in the validity findings: not repeated as signals.
   const signals = detectSuspiciousSignals(
     { assemblyId: a.id, testedOn: input.testedOn, testedAt: testedAt.toISOString(), input: final },
     {
       previousTest: previous ?? null,
       testerNearbyTests: nearby.map((n) => ({ reportId: n.reportId, testedAt: n.testedAt.toISOString() })),
-      testerSameDayReports: sameDay,
+      testerSameDayReports: sameDay.map((t) => ({ reportId: t.reportId, assemblyId: t.assemblyId, fingerprint: t.fingerprint })),
       options: { kitVerificationMaxMonths: program.ruleSet.kit.verificationMaxMonths },
     },
   );
@@ -406,7 +409,8 @@ async function fileReport(tx: Transaction, actor: Actor, input: ReportSubmission
     await recordAudit(tx, { programId: program.id, actorId: actor.id, action: "report.superseded", entityType: "test_report", entityId: basis.id, before: { status: "returned" }, after: { status: "superseded", supersededBy: reportId } });
   }
   if (input.draftKey) await tx.delete(reportDrafts).where(and(eq(reportDrafts.testerId, actor.id), eq(reportDrafts.clientKey, input.draftKey)));
-  await recomputeAssemblyFacts(tx, a.id);
+  // The assembly's row was locked at the start of this transaction and the settings read with the program.
+  await recomputeAssemblyFacts(tx, a.id, { assembly: a, settings: program.settings });
   // The year's number row stays locked from here to commit, so concurrent submissions queue for
   // it: taking it last keeps that queue short (numbers stay consecutive, with no gaps).
   const reportNumber = corrected ? corrected.reportNumber : await allocateReportNumber(tx, program, Number(input.testedOn.slice(0, 4)));
