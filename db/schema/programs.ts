@@ -49,6 +49,8 @@ export const programSettings = mysqlTable("program_settings", {
   kitPolicy: mysqlEnum(["refuse", "flag"]).notNull().default("refuse"),
   updatedAt: datetime({ fsp: 3 }).notNull(),
   updatedBy: int({ unsigned: true }),
+  /** Set with a change that moves due dates, cleared once every assembly has been recomputed: a recompute cut short is finished by the next one (the notice run starts with it). */
+  factsPendingSince: datetime({ fsp: 3 }),
 });
 
 /** A program's own rule-set edition (stricter local minimums, or a documented variance). */

@@ -1,5 +1,5 @@
 import "server-only";
-import { and, asc, eq, gt, inArray, sql } from "drizzle-orm";
+import { and, asc, eq, gt, inArray, lte, sql } from "drizzle-orm";
 import { getDb, type Executor } from "@/db/client";
 import { assemblies, programSettings, testReports } from "@/db/schema";
 import { programRulesFromSettings } from "@/lib/programs/settings";
@@ -177,4 +177,21 @@ export async function recomputeProgramFacts(programId: number, options: { chunkS
     if (result.rows < chunkSize) break;
   }
   return { assemblies: total, changed, milliseconds: Date.now() - started };
+}
+
+/**
+ * Finishes a recompute that a settings change asked for (program_settings.facts_pending_since),
+ * if one is still owed: after the settings request that started it, or after one cut short.
+ * The mark is cleared only up to the change it was read for, so a newer change still counts.
+ */
+export async function finishPendingFactsRecompute(programId: number): Promise<ProgramRecomputeResult | null> {
+  const db = getDb();
+  const [row] = await db.select({ since: programSettings.factsPendingSince }).from(programSettings).where(eq(programSettings.programId, programId)).limit(1);
+  if (!row?.since) return null;
+  const result = await recomputeProgramFacts(programId);
+  await db
+    .update(programSettings)
+    .set({ factsPendingSince: null })
+    .where(and(eq(programSettings.programId, programId), lte(programSettings.factsPendingSince, row.since)));
+  return result;
 }

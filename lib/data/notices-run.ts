@@ -17,6 +17,7 @@ import { getFileStore } from "@/lib/storage/file-store";
 import { generateReadableCode, hashToken } from "@/lib/auth/tokens";
 import { checkWordFor, describeAssembly, formatLongDate, formatOwnerCode, OWNER_CODE_LENGTH } from "./notices-format";
 import { createNoticeRenderer, noticeWordings, prepareNoticeProps, type NoticeRenderer } from "./notices-render";
+import { finishPendingFactsRecompute } from "./inventory-facts";
 import { createOwnerTokens, expiryOf, expiryWords, ownerLinkUrl, resolveOwnerUsersForEmails, resolveOwnerUsersForLetters } from "./owner-access";
 
 /**
@@ -886,6 +887,13 @@ async function executeRun(state: RunState): Promise<NoticeRunSummary> {
   let status: NoticeRunStatus = "finished";
   let message = "";
   try {
+    // Notices are planned from each assembly's stored due dates: a recompute still owed after a
+    // settings change (one cut short) is finished first.
+    const recomputed = await finishPendingFactsRecompute(program.id);
+    if (recomputed) {
+      log.add(`First finished recomputing due dates after a settings change: ${recomputed.assemblies} assemblies, ${recomputed.changed} changed.`);
+      await keepLeaseOrStop(state);
+    }
     const plan = await planTodaysNotices(program, now());
     counters.planned = plan.planned.length;
     const byKind = (["reminder", "overdue", "final", "repair_reminder"] as const).map((k) => `${plan.planned.filter((p) => p.kind === k).length} ${k.replace("_", " ")}`).join(", ");

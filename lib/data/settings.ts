@@ -23,7 +23,7 @@ import {
   type RuleSetValuePath,
 } from "@/lib/rules";
 import { recordAudit } from "./audit";
-import { recomputeProgramFacts, type ProgramRecomputeResult } from "./inventory-facts";
+import { finishPendingFactsRecompute, type ProgramRecomputeResult } from "./inventory-facts";
 
 export type ProgramSettingsRow = typeof programSettings.$inferSelect;
 
@@ -133,6 +133,8 @@ export interface SettingsView {
   settings: SettingsInput;
   editions: RuleSetEditionOption[];
   updatedAt: string;
+  /** When a settings change asked for due dates to be recomputed and that is not finished yet. */
+  factsPendingSince: string | null;
 }
 
 export async function listRuleSetEditions(programId: number): Promise<RuleSetEditionOption[]> {
@@ -175,6 +177,7 @@ export async function getSettingsView(actor: Actor): Promise<SettingsView> {
     },
     editions: await listRuleSetEditions(context.id),
     updatedAt: s.updatedAt.toISOString(),
+    factsPendingSince: s.factsPendingSince?.toISOString() ?? null,
   };
 }
 
@@ -186,7 +189,7 @@ export interface SettingsUpdateResult {
 /**
  * Saves the program's settings after lib/rules has judged them (due model, intervals, the notice
  * schedule's order). A change that moves due dates recomputes every assembly's stored facts,
- * a chunk per transaction, before answering.
+ * a chunk per transaction, before answering (and is marked as owed until that is done).
  */
 export async function updateProgramSettings(actor: Actor, input: SettingsInput): Promise<SettingsUpdateResult> {
   assertCan(actor, "settings.manage");
@@ -220,17 +223,20 @@ export async function updateProgramSettings(actor: Actor, input: SettingsInput):
     }
     const keys = Object.keys(after);
     if (keys.length === 0) return keys;
+    const now = new Date();
+    // A change that moves due dates is marked in the same transaction, so a recompute that is
+    // cut short (the request or the process dying) is finished by the next one.
+    const movesDueDates = keys.some((key) => (dueAffecting as readonly string[]).includes(key));
     await tx
       .update(programSettings)
-      .set({ ...input, updatedAt: new Date(), updatedBy: actor.id })
+      .set({ ...input, updatedAt: now, updatedBy: actor.id, ...(movesDueDates ? { factsPendingSince: now } : {}) })
       .where(eq(programSettings.programId, programId));
     await recordAudit(tx, { programId, actorId: actor.id, action: "settings.updated", entityType: "program_settings", entityId: programId, before, after });
     return keys;
   });
-  const movesDueDates = changed.some((key) => (dueAffecting as readonly string[]).includes(key));
-  let recomputed: ProgramRecomputeResult | null = null;
-  if (movesDueDates) {
-    recomputed = await recomputeProgramFacts(programId);
+  // Whatever changed, a recompute still owed (this change's, or one cut short) is done before answering.
+  const recomputed: ProgramRecomputeResult | null = await finishPendingFactsRecompute(programId);
+  if (recomputed) {
     await recordAudit(db, { programId, actorId: actor.id, action: "assemblies.facts_recomputed", entityType: "program", entityId: programId, after: recomputed });
   }
   return { changed, recomputed };

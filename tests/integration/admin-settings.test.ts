@@ -19,7 +19,7 @@ beforeAll(async () => {
 
 async function currentSettings() {
   const [row] = await testDb().select().from(programSettings).where(eq(programSettings.programId, world.programId));
-  const { programId: _p, updatedAt: _u, updatedBy: _b, ...rest } = row!;
+  const { programId: _p, updatedAt: _u, updatedBy: _b, factsPendingSince: _f, ...rest } = row!;
   return rest;
 }
 
@@ -50,6 +50,33 @@ describe("program settings", () => {
     expect(window.status).toBe(200);
     expect(await currentSettings()).toMatchObject({ dueModel: "window", filingFeeCents: 1250, units: "kPa", kitPolicy: "flag" });
     await admin.put("/api/admin/settings", { ...settings });
+  });
+
+  test("a recompute cut short is owed until done: the settings page says so, and the next save finishes it", async () => {
+    const admin = await as(world.adminEmail);
+    const site = await createSite(world.programId);
+    const tester = await createTester({ programIds: [world.programId] });
+    const passedOn = addMonths(today(), -5);
+    // Stored facts that disagree with the history, as if the recompute stopped before this assembly.
+    const { id } = await createAssembly(world.programId, site.id, { lastPassedOn: passedOn, lastTestedOn: passedOn, lastOutcome: "pass", nextDueOn: addMonths(today(), 40) });
+    await createReport({ programId: world.programId, assemblyId: id, tester, testedOn: passedOn, status: "accepted" });
+    const pendingSince = new Date(Date.now() - 60_000);
+    await testDb().update(programSettings).set({ factsPendingSince: pendingSince }).where(eq(programSettings.programId, world.programId));
+
+    const page = await admin.get("/admin/settings");
+    expect(page.status).toBe(200);
+    expect(page.text).toContain("Due dates are still being recomputed");
+
+    const settings = await currentSettings();
+    const saved = await admin.put("/api/admin/settings", settings);
+    expect(saved.status, JSON.stringify(saved.body)).toBe(200);
+    expect(saved.body.changed).toEqual([]);
+    expect(saved.body.recomputed.assemblies).toBeGreaterThanOrEqual(1);
+    const [row] = await testDb().select().from(assemblies).where(eq(assemblies.id, id));
+    expect(row!.nextDueOn).toBe(dueDateAfterPass(passedOn, { ...defaultProgramRules, testIntervalMonths: settings.testIntervalMonths }));
+    const [after] = await testDb().select({ since: programSettings.factsPendingSince }).from(programSettings).where(eq(programSettings.programId, world.programId));
+    expect(after!.since).toBeNull();
+    expect((await admin.get("/admin/settings")).text).not.toContain("Due dates are still being recomputed");
   });
 
   test("an overlapping or negative notice schedule is refused with lib/rules' message, nothing saved", async () => {

@@ -6,7 +6,7 @@ import { spawn } from "node:child_process";
 import { and, eq, isNotNull } from "drizzle-orm";
 import { afterAll, afterEach, describe, expect, test } from "vitest";
 import { closeDb } from "@/db/client";
-import { noticeRuns, notices } from "@/db/schema";
+import { assemblies, noticeRuns, notices, programSettings } from "@/db/schema";
 import { acquireLease, NOTICE_LEASE_SECONDS, releaseLease, runNoticesForProgram } from "@/lib/data/notices-run";
 import { closeTestDb, countAllTables, testDb } from "../helpers/db";
 import { as, unique } from "../helpers/http";
@@ -213,6 +213,27 @@ describe("a run cut off half way, then run again", () => {
     expect(rows.every((r) => r.status === "sent")).toBe(true);
     const [dead] = await testDb().select().from(noticeRuns).where(and(eq(noticeRuns.programId, w.programId), eq(noticeRuns.status, "failed")));
     expect(dead?.log).toMatch(/Interrupted before it finished/);
+  });
+});
+
+describe("a settings change whose recompute was cut short", () => {
+  test("the next run finishes the recompute before it plans, and says so in its log", async () => {
+    const world = await createNoticeWorld();
+    const { siteId } = await world.addSite({ contacts: [{ name: "Owner", email: world.email("owner") }] });
+    // Stored as long overdue, but with no test on record: recomputed, it is simply never tested.
+    const assembly = await world.addAssembly(siteId, { label: "service line", nextDueInDays: -40, lastTestedDaysAgo: 400 });
+    await testDb().update(programSettings).set({ factsPendingSince: new Date(Date.now() - 60_000) }).where(eq(programSettings.programId, world.programId));
+
+    const run = await runNoticesForProgram(world.programId, { trigger: "button" });
+    expect(run.status, run.log.join("\n")).toBe("finished");
+    expect(run.log.join("\n")).toMatch(/First finished recomputing due dates after a settings change: 1 assemblies, 1 changed/);
+    const [settings] = await testDb().select({ since: programSettings.factsPendingSince }).from(programSettings).where(eq(programSettings.programId, world.programId));
+    expect(settings!.since).toBeNull();
+    const [row] = await testDb().select({ lastTestedOn: assemblies.lastTestedOn }).from(assemblies).where(eq(assemblies.id, assembly.id));
+    expect(row!.lastTestedOn).toBeNull();
+
+    const again = await runNoticesForProgram(world.programId, { trigger: "button" });
+    expect(again.log.join("\n")).not.toMatch(/recomputing/);
   });
 });
 

@@ -1,0 +1,1 @@
+ALTER TABLE `program_settings` ADD `facts_pending_since` datetime(3);
