@@ -212,8 +212,10 @@ function writeResults() {
     ...rows.map((r) => `| ${r.benchmark} | ${r.figure} | ${r.target} | ${r.meets === null ? "—" : r.meets ? "yes" : "**no**"} |`),
     ``,
   ].join("\n");
-  writeFileSync(path.join(dir, "latest.md"), md);
-  writeFileSync(path.join(dir, "latest.json"), JSON.stringify({ commit, date: new Date().toISOString(), node, cpu, rows }, null, 2));
+  // A run of some benchmarks (BENCH_ONLY) leaves the full table of the last whole run alone.
+  const name = only.length ? "partial" : "latest";
+  writeFileSync(path.join(dir, `${name}.md`), md);
+  writeFileSync(path.join(dir, `${name}.json`), JSON.stringify({ commit, date: new Date().toISOString(), node, cpu, rows }, null, 2));
   console.log(`\n${md}`);
 }
 

@@ -40,6 +40,8 @@ if [ -n "${PAYMENTS_STANDIN_URL:-}" ] && ! node -e "fetch('$PAYMENTS_STANDIN_URL
   start_payments "$DATA/payments" "$PAYMENTS_PORT" "http://127.0.0.1:${PORT:-3000}/api/fees/webhook"
 fi
 run_ts scripts/migrate.ts
+# The benchmark measures the built app: build it first when the sources are newer.
+[ -z "${BUILD_FIRST:-}" ] || build_app
 case "${1:-}" in
   *.ts) run_ts "$@" ;;
   "") ;;
