@@ -91,7 +91,7 @@ async function main() {
     const r = await runChildBench("bench/pdf.ts", { DATABASE_URL: scaleUrl }, ["--json"]);
     rows.push({
       benchmark: "report PDF render (repaired RP) vs one-line document",
-      figure: `${r.reportMs} ms median, heap ${r.reportHeapMb} MB; one line ${r.oneLineMs} ms, ${r.oneLineHeapMb} MB (×${r.ratio} time); ${Math.round(r.reportBytes! / 1024)} kB`,
+      figure: `${r.reportMs} ms median (${r.reportMsAfterFullGc} ms right after a forced full collection), heap ${r.reportHeapMb} MB; one line ${r.oneLineMs} ms, ${r.oneLineHeapMb} MB (×${r.ratio} time); ${Math.round(r.reportBytes! / 1024)} kB`,
       target: "≤ 100 ms",
       meets: r.reportMs! <= 100,
       detail: r,
