@@ -9,6 +9,7 @@ import { ConflictError, InputError, NotFoundError } from "@/lib/errors";
 import { isIsoDate, type AssemblyKind } from "@/lib/rules";
 import { recordAudit } from "./audit";
 import { recomputeAssemblyFacts } from "./assembly-facts";
+import { prepared } from "./prepared";
 import { listApprovedProgramIds, requireApprovedProgram } from "./tester-programs";
 
 export type MatchedOn = "serial" | "account" | "address" | "site_name";
@@ -83,6 +84,45 @@ const hitColumns = {
 };
 
 /**
+ * The search for a number of programs, prepared once per number: one branch per program and
+ * per column, ordered by the column it matches, so each reads its LIMIT rows straight off a
+ * (program_id, column) index range and stops, however many thousands of serials share the typed
+ * prefix. Ordering by anything else, or spanning two programs in one branch, would make the
+ * database gather and sort every match. The branches go as one UNION ALL statement: one round
+ * trip to the database for the whole search.
+ */
+function buildAssemblySearch(programCount: number) {
+  const db = getDb();
+  const pattern = sql.placeholder("pattern");
+  const inService = inArray(assemblies.status, ["active", "awaiting_confirmation"]);
+  const branch = (programIndex: number, column: typeof assemblies.serial | typeof sites.accountNumber | typeof sites.addressLine1 | typeof sites.name, matchedOn: MatchedOn) => {
+    const programId = sql.placeholder(`program${programIndex}`);
+    return (
+      db
+        .select({ ...hitColumns, matchedOn: sql<MatchedOn>`${matchedOn}`.as("matched_on") })
+        // Left to itself the optimizer walks the serial index from the program's first serial
+        // (a "ref" on program_id) instead of seeking to the prefix: the hint makes it a range.
+        .from(assemblies, column === assemblies.serial ? { forceIndex: "assemblies_serial_idx" } : undefined)
+        .innerJoin(sites, eq(sites.id, assemblies.siteId))
+        .innerJoin(programs, eq(programs.id, assemblies.programId))
+        .where(and(column === assemblies.serial ? eq(assemblies.programId, programId) : eq(sites.programId, programId), like(column, pattern), inService))
+        .orderBy(asc(column))
+        .limit(PER_QUERY_LIMIT)
+    );
+  };
+  const columns = [
+    [assemblies.serial, "serial"],
+    [sites.accountNumber, "account"],
+    [sites.addressLine1, "address"],
+    [sites.name, "site_name"],
+  ] as const;
+  const programIndexes = Array.from({ length: programCount }, (_, i) => i);
+  // Four columns, so always at least two branches.
+  const [first, second, ...others] = columns.flatMap(([column, matchedOn]) => programIndexes.map((i) => branch(i, column, matchedOn)));
+  return unionAll(first!, second!, ...others).prepare();
+}
+
+/**
  * Assemblies by serial, account number, street address or site name, as the tester types.
  * Every branch is a prefix match on an indexed (program_id, column) pair, so each answers
  * from an index range however large the inventory; removed and replaced assemblies are left out.
@@ -92,34 +132,8 @@ export async function searchAssemblies(actor: Actor, input: z.infer<typeof assem
   const query = input.q;
   const scope = await searchScope(actor, input.program);
   if (query.length < SEARCH_MIN_LENGTH || scope.length === 0) return { hits: [], query };
-  const pattern = prefixPattern(query);
-  const db = getDb();
-  const inService = inArray(assemblies.status, ["active", "awaiting_confirmation"]);
-  // One branch per program and per column, ordered by the column it matches: each reads its
-  // LIMIT rows straight off a (program_id, column) index range and stops, however many
-  // thousands of serials share the typed prefix. Ordering by anything else, or spanning two
-  // programs in one branch, would make the database gather and sort every match. The branches
-  // go as one UNION ALL statement: one round trip to the database for the whole search.
-  const branch = (programId: number, column: typeof assemblies.serial | typeof sites.accountNumber | typeof sites.addressLine1 | typeof sites.name, matchedOn: MatchedOn) =>
-    db
-      .select({ ...hitColumns, matchedOn: sql<MatchedOn>`${matchedOn}`.as("matched_on") })
-      // Left to itself the optimizer walks the serial index from the program's first serial
-      // (a "ref" on program_id) instead of seeking to the prefix: the hint makes it a range.
-      .from(assemblies, column === assemblies.serial ? { forceIndex: "assemblies_serial_idx" } : undefined)
-      .innerJoin(sites, eq(sites.id, assemblies.siteId))
-      .innerJoin(programs, eq(programs.id, assemblies.programId))
-      .where(and(column === assemblies.serial ? eq(assemblies.programId, programId) : eq(sites.programId, programId), like(column, pattern), inService))
-      .orderBy(asc(column))
-      .limit(PER_QUERY_LIMIT);
-  const columns = [
-    [assemblies.serial, "serial"],
-    [sites.accountNumber, "account"],
-    [sites.addressLine1, "address"],
-    [sites.name, "site_name"],
-  ] as const;
-  // Four columns, so always at least two branches.
-  const [first, second, ...others] = columns.flatMap(([column, matchedOn]) => scope.map((programId) => branch(programId, column, matchedOn)));
-  const rows = await unionAll(first!, second!, ...others);
+  const statement = prepared(`search.assemblies|${scope.length}`, () => buildAssemblySearch(scope.length));
+  const rows = await statement.execute({ pattern: prefixPattern(query), ...Object.fromEntries(scope.map((programId, i) => [`program${i}`, programId])) });
   // Serial matches first, then account, address and site name, each in its column's order.
   const rank: Record<MatchedOn, number> = { serial: 0, account: 1, address: 2, site_name: 3 };
   const ordered = rows.map((row, index) => ({ row, index })).sort((a, b) => rank[a.row.matchedOn] - rank[b.row.matchedOn] || a.index - b.index);

@@ -1,11 +1,12 @@
 import "server-only";
-import { and, asc, count, desc, eq, gt, lt, min, or, sql, type SQL } from "drizzle-orm";
+import { and, asc, count, desc, eq, gt, lt, min, or, sql, type Placeholder, type SQL } from "drizzle-orm";
 import { z } from "zod";
 import { getDb } from "@/db/client";
 import { assemblies, testReports } from "@/db/schema";
 import { assemblyKinds } from "@/db/schema/inventory";
 import { assertCan, staffProgramId, type Actor } from "@/lib/auth/permissions";
 import { InputError } from "@/lib/errors";
+import { prepared } from "./prepared";
 import type { SuspiciousSignal, ValidityIssue } from "@/lib/rules";
 import type { AssemblySnapshot, TesterSnapshot } from "./report-detail";
 
@@ -78,15 +79,30 @@ export interface QueuePage {
   nextCursor: string | null;
 }
 
+/**
+ * The values a queue WHERE compares with: plain values for a one-off statement, or placeholders
+ * for a prepared one (the grade and flag filters are fixed SQL, so they belong to the shape).
+ */
+interface QueueBinds {
+  programId: number | Placeholder;
+  kind?: QueueFilter["kind"] | Placeholder;
+  testerId?: number | Placeholder;
+  submittedBefore?: Date | Placeholder;
+}
+
+function bindsOf(programId: number, filter: QueueFilter, now: Date): QueueBinds {
+  return { programId, kind: filter.kind, testerId: filter.testerId, submittedBefore: filter.age ? new Date(now.getTime() - filter.age * 86_400_000) : undefined };
+}
+
 /** The shared WHERE of the queue and a filter. */
-function queueConditions(programId: number, filter: QueueFilter, now: Date): SQL[] {
-  const where: SQL[] = [eq(testReports.programId, programId), eq(testReports.status, "queued")];
-  if (filter.kind) where.push(eq(testReports.assemblyKind, filter.kind));
+function queueConditions(binds: QueueBinds, filter: QueueFilter): SQL[] {
+  const where: SQL[] = [eq(testReports.programId, binds.programId), eq(testReports.status, "queued")];
+  if (binds.kind !== undefined) where.push(eq(testReports.assemblyKind, binds.kind));
   if (filter.grade === "pass") where.push(eq(testReports.finalOutcome, "pass"), eq(testReports.wasRepaired, false));
   if (filter.grade === "fail") where.push(eq(testReports.finalOutcome, "fail"));
   if (filter.grade === "repaired") where.push(eq(testReports.finalOutcome, "pass"), eq(testReports.wasRepaired, true));
-  if (filter.testerId) where.push(eq(testReports.testerId, filter.testerId));
-  if (filter.age) where.push(lt(testReports.submittedAt, new Date(now.getTime() - filter.age * 86_400_000)));
+  if (binds.testerId !== undefined) where.push(eq(testReports.testerId, binds.testerId));
+  if (binds.submittedBefore !== undefined) where.push(lt(testReports.submittedAt, binds.submittedBefore));
   if (filter.flags === "clean") where.push(eq(testReports.isClean, true));
   if (filter.flags === "flagged") where.push(gt(testReports.warningCount, 0));
   if (filter.flags === "signals") where.push(sql`JSON_LENGTH(${testReports.signals}) > 0`);
@@ -98,6 +114,32 @@ function queueConditions(programId: number, filter: QueueFilter, now: Date): SQL
     );
   }
   return where;
+}
+
+/** The same WHERE with a placeholder for every value the filter sets. */
+function placeholderBinds(filter: QueueFilter): QueueBinds {
+  return {
+    programId: sql.placeholder("programId"),
+    kind: filter.kind ? sql.placeholder("kind") : undefined,
+    testerId: filter.testerId ? sql.placeholder("testerId") : undefined,
+    submittedBefore: filter.age ? sql.placeholder("submittedBefore") : undefined,
+  };
+}
+
+/** The placeholder values for a filter (timestamps as the column stores them). */
+function placeholderValues(programId: number, filter: QueueFilter, now: Date): Record<string, unknown> {
+  const binds = bindsOf(programId, filter, now);
+  return {
+    programId,
+    kind: binds.kind,
+    testerId: binds.testerId,
+    submittedBefore: binds.submittedBefore instanceof Date ? testReports.submittedAt.mapToDriverValue(binds.submittedBefore) : undefined,
+  };
+}
+
+/** What changes a queue statement's SQL (never a value), as a cache key. */
+function shapeOf(filter: QueueFilter): string {
+  return [filter.kind ? "k" : "", filter.grade ?? "", filter.testerId ? "t" : "", filter.age ? "a" : "", filter.flags ?? ""].join("|");
 }
 
 interface Cursor {
@@ -138,26 +180,18 @@ function splitFindings(validity: ValidityIssue[], signals: SuspiciousSignal[]) {
   return { certification: { isValid: certification.length === 0, messages: certification }, kit: { isValid: kit.length === 0, messages: kit }, warnings, signals: otherSignals };
 }
 
-export async function listReviewQueue(actor: Actor, query: QueuePageQuery, now = new Date()): Promise<QueuePage> {
-  assertCan(actor, "reports.review");
-  const programId = staffProgramId(actor);
-  const db = getDb();
-  const cursor = decodeCursor(query.cursor);
-  const where = queueConditions(programId, query, now);
-
+function buildPageStatement(filter: QueueFilter, sort: QueueSort, hasCursor: boolean) {
+  const where = queueConditions(placeholderBinds(filter), filter);
   // Each sort is a column plus the id as tie-breaker, so a cursor names one exact place.
-  const byTested = query.sort === "tested_oldest" || query.sort === "tested_newest";
-  const isDescending = query.sort === "newest" || query.sort === "tested_newest";
+  const byTested = sort === "tested_oldest" || sort === "tested_newest";
+  const isDescending = sort === "newest" || sort === "tested_newest";
   const column = byTested ? testReports.testedOn : testReports.submittedAt;
-  if (cursor) {
-    const value = byTested ? cursor.v : new Date(cursor.v);
+  if (hasCursor) {
     const beyond = isDescending ? lt : gt;
-    where.push(or(beyond(column, value), and(eq(column, value), beyond(testReports.id, cursor.id)))!);
+    where.push(or(beyond(column, sql.placeholder("cursorValue")), and(eq(column, sql.placeholder("cursorValue")), beyond(testReports.id, sql.placeholder("cursorId"))))!);
   }
   const order = isDescending ? [desc(column), desc(testReports.id)] : [asc(column), asc(testReports.id)];
-
-  // The page and both counts at once: two statements in flight, one wait.
-  const pageQuery = db
+  return getDb()
     .select({
       id: testReports.id,
       reportNumber: testReports.reportNumber,
@@ -182,8 +216,33 @@ export async function listReviewQueue(actor: Actor, query: QueuePageQuery, now =
     .innerJoin(assemblies, eq(assemblies.id, testReports.assemblyId))
     .where(and(...where))
     .orderBy(...order)
-    .limit(query.limit + 1);
-  const [rows, counts] = await Promise.all([pageQuery, countQueue(programId, query, now)]);
+    .limit(sql.placeholder("limit"))
+    .prepare();
+}
+
+/** Everything queued and what the filter matches, in one statement: each count reads its own index range. */
+function buildCountStatement(filter: QueueFilter) {
+  const db = getDb();
+  const all = db.select({ n: count() }).from(testReports).where(and(eq(testReports.programId, sql.placeholder("programId")), eq(testReports.status, "queued")));
+  // Every filter is on the report itself (it carries the kind it tested): no join to count.
+  const matching = db.select({ n: count() }).from(testReports).where(and(...queueConditions(placeholderBinds(filter), filter)));
+  return db.select({ total: sql<number>`(${all})`, matching: sql<number>`(${matching})` }).from(sql`DUAL`).prepare();
+}
+
+export async function listReviewQueue(actor: Actor, query: QueuePageQuery, now = new Date()): Promise<QueuePage> {
+  assertCan(actor, "reports.review");
+  const programId = staffProgramId(actor);
+  const cursor = decodeCursor(query.cursor);
+  const byTested = query.sort === "tested_oldest" || query.sort === "tested_newest";
+  // Prepared once per shape (which filters are set, the sort, whether there is a cursor): at
+  // most a few hundred, each built on its first request.
+  const page = prepared(`queue.page|${shapeOf(query)}|${query.sort}|${cursor ? "c" : ""}`, () => buildPageStatement(query, query.sort, Boolean(cursor)));
+  const counts = prepared(`queue.count|${shapeOf(query)}`, () => buildCountStatement(query));
+  const values = placeholderValues(programId, query, now);
+  const cursorValues = cursor ? { cursorValue: byTested ? cursor.v : testReports.submittedAt.mapToDriverValue(new Date(cursor.v)), cursorId: cursor.id } : {};
+
+  // The page and both counts at once: two statements in flight, one wait.
+  const [rows, [countRow]] = await Promise.all([page.execute({ ...values, ...cursorValues, limit: query.limit + 1 }), counts.execute(values)]);
   const hasMore = rows.length > query.limit;
   const pageRows = rows.slice(0, query.limit);
   const last = pageRows.at(-1);
@@ -216,20 +275,10 @@ export async function listReviewQueue(actor: Actor, query: QueuePageQuery, now =
         isClean: r.isClean,
       };
     }),
-    total: counts.total,
-    matching: counts.matching,
+    total: Number(countRow?.total ?? 0),
+    matching: Number(countRow?.matching ?? 0),
     nextCursor: hasMore && last ? encodeCursor({ v: byTested ? last.testedOn : last.submittedAt.toISOString(), id: last.id }) : null,
   };
-}
-
-/** Everything queued and what the filter matches, in one statement: each count reads its own index range. */
-async function countQueue(programId: number, filter: QueueFilter, now: Date): Promise<{ total: number; matching: number }> {
-  const db = getDb();
-  const all = db.select({ n: count() }).from(testReports).where(and(eq(testReports.programId, programId), eq(testReports.status, "queued")));
-  // Every filter is on the report itself (it carries the kind it tested): no join to count.
-  const matching = db.select({ n: count() }).from(testReports).where(and(...queueConditions(programId, filter, now)));
-  const [row] = await db.select({ total: sql<number>`(${all})`, matching: sql<number>`(${matching})` }).from(sql`DUAL`);
-  return { total: Number(row?.total ?? 0), matching: Number(row?.matching ?? 0) };
 }
 
 /** The largest set "accept all clean passes" takes in one confirmation. */
@@ -243,7 +292,7 @@ export async function listCleanPassIds(actor: Actor, filter: QueueFilter, now = 
   assertCan(actor, "reports.review");
   const programId = staffProgramId(actor);
   const clean = { ...filter, flags: "clean" as const };
-  const where = [...queueConditions(programId, clean, now), eq(testReports.finalOutcome, "pass")];
+  const where = [...queueConditions(bindsOf(programId, clean, now), clean), eq(testReports.finalOutcome, "pass")];
   const rows = await getDb()
     .select({ id: testReports.id })
     .from(testReports)
