@@ -172,8 +172,14 @@ function checkRepairsOrThrow(kind: AssemblyKind, repairs: ReportSubmission["repa
 async function allocateReportNumber(tx: Transaction, program: TesterProgram, year: number): Promise<string> {
   const prefix = `${program.reportPrefix}-${year}-`;
   const where = and(eq(reportNumberSequences.programId, program.id), eq(reportNumberSequences.year, year));
-  let [row] = await tx.select({ lastNumber: reportNumberSequences.lastNumber }).from(reportNumberSequences).where(where).for("update");
-  if (!row) {
+  // One statement takes the next number and locks the row: LAST_INSERT_ID(expr) hands the new
+  // value back in the statement's answer, so the locked stretch is a statement shorter.
+  const takeNext = async () => {
+    const [result] = await tx.update(reportNumberSequences).set({ lastNumber: sql`LAST_INSERT_ID(${reportNumberSequences.lastNumber} + 1)` }).where(where);
+    return result.affectedRows === 1 ? Number(result.insertId) : null;
+  };
+  let next = await takeNext();
+  if (next === null) {
     const [highest] = await tx
       .select({ reportNumber: testReports.reportNumber })
       .from(testReports)
@@ -182,10 +188,9 @@ async function allocateReportNumber(tx: Transaction, program: TesterProgram, yea
       .limit(1);
     const floor = highest ? Number.parseInt(highest.reportNumber.slice(prefix.length), 10) || 0 : 0;
     await tx.insert(reportNumberSequences).ignore().values({ programId: program.id, year, lastNumber: floor });
-    [row] = await tx.select({ lastNumber: reportNumberSequences.lastNumber }).from(reportNumberSequences).where(where).for("update");
+    next = await takeNext();
+    if (next === null) throw new Error(`The report number row for ${prefix} could not be created.`);
   }
-  const next = row!.lastNumber + 1;
-  await tx.update(reportNumberSequences).set({ lastNumber: next }).where(where);
   return `${prefix}${String(next).padStart(6, "0")}`;
 }
 

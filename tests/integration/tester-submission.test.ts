@@ -4,7 +4,7 @@
 import { execFileSync } from "node:child_process";
 import { and, eq } from "drizzle-orm";
 import { afterAll, describe, expect, test } from "vitest";
-import { assemblies, auditLog, programSettings, reportDrafts, reportReadings, reportRepairs, reviews, testKits, testReports } from "@/db/schema";
+import { assemblies, auditLog, programSettings, reportDrafts, reportNumberSequences, reportReadings, reportRepairs, reviews, testKits, testReports } from "@/db/schema";
 import { demoAccounts } from "@/db/seed/demo-accounts";
 import { addDays, addMonths } from "@/lib/rules";
 import { closeTestDb, countAllTables, testDb } from "../helpers/db";
@@ -128,6 +128,24 @@ describe("filing an RP that fails, is repaired and passes the retest", () => {
     expect(responses.map((r) => r.status)).toEqual([201, 201, 201, 201]);
     const numbers = responses.map((r) => Number(String(r.body.reportNumber).slice(-6))).sort((x, y) => x - y);
     expect(numbers).toEqual([0, 1, 2, 3].map((i) => numbers[0]! + i));
+  });
+
+  test("a year with no number row yet starts above the numbers already used in it", async () => {
+    const tester = await createTester();
+    const session = await as(tester.email);
+    const [one, two] = [await createAssembly({ kind: "RP" }), await createAssembly({ kind: "RP" })];
+    const first = await session.post("/api/reports", rpSubmission({ assemblyId: one.id, kitId: tester.kitId, testerName: tester.name, testedTime: "08:05" }));
+    expect(first.status).toBe(201);
+    const year = Number(today().slice(0, 4));
+    const db = testDb();
+    // As after loading history from before numbering rows existed: the numbers are in use, the row is not there.
+    await db.delete(reportNumberSequences).where(and(eq(reportNumberSequences.programId, 1), eq(reportNumberSequences.year, year)));
+    const second = await session.post("/api/reports", rpSubmission({ assemblyId: two.id, kitId: tester.kitId, testerName: tester.name, testedTime: "09:05" }));
+    expect(second.status).toBe(201);
+    const numberOf = (reportNumber: string) => Number(reportNumber.slice(-6));
+    expect(numberOf(second.body.reportNumber)).toBeGreaterThan(numberOf(first.body.reportNumber));
+    const [row] = await db.select().from(reportNumberSequences).where(and(eq(reportNumberSequences.programId, 1), eq(reportNumberSequences.year, year)));
+    expect(row!.lastNumber).toBeGreaterThanOrEqual(numberOf(second.body.reportNumber));
   });
 
   test("a failed assembly not repaired on the spot is filed as failed and its repair deadline starts", async () => {
