@@ -25,7 +25,18 @@ export interface SubmitFigures {
 
 type Row = Record<string, unknown>;
 
-export async function benchSubmissions(options: { appUrl: string; databaseUrl: string; testers?: number; submissions?: number }): Promise<SubmitFigures> {
+export async function benchSubmissions(options: {
+  appUrl: string;
+  databaseUrl: string;
+  testers?: number;
+  submissions?: number;
+  /**
+   * Unset: every tester files its share back to back (each waits for its last answer), so 50
+   * testers keep 50 submissions in flight. Set: submissions arrive at this steady rate whatever
+   * the answers, shared round the testers, and each latency counts from its due time.
+   */
+  ratePerSecond?: number;
+}): Promise<SubmitFigures> {
   const testerCount = options.testers ?? 50;
   const total = options.submissions ?? 2000;
   const perTester = Math.ceil(total / testerCount);
@@ -50,42 +61,57 @@ export async function benchSubmissions(options: { appUrl: string; databaseUrl: s
     const refused: Record<string, number> = {};
     const acknowledgedKeys: string[] = [];
     const bodies: { cookie: string; body: string }[] = [];
+    const submitOne = async (t: number, i: number, assembly: Row, dueAt: number) => {
+      const tester = testers[t]!;
+      const key = randomBytes(16).toString("hex");
+      const body = JSON.stringify({
+        idempotencyKey: key,
+        assemblyId: assembly.id,
+        kitId: tester.kitId,
+        testedOn: today,
+        testedTime: `${String(7 + (i % 10)).padStart(2, "0")}:${String((i * 7) % 60).padStart(2, "0")}`,
+        reason: "annual",
+        installation: "existing",
+        orientationApproved: true,
+        reliefPortAirGapOk: true,
+        unit: "psid",
+        linePressure: 60 + (i % 20),
+        initial: { reliefValveOpeningPoint: 2.4 + (i % 10) / 10, check1Differential: 5.8 + (t % 10) / 10, check1ClosedTight: true, check2ClosedTight: true, shutoff2Tight: true },
+        repairs: [],
+        retest: null,
+        remarks: "",
+        attestation: { name: tester.name, confirmed: true },
+      });
+      const response = await fetch(`${options.appUrl}/api/reports`, { method: "POST", headers: { cookie: cookies[t]!, "content-type": "application/json", origin: options.appUrl }, body });
+      await response.arrayBuffer();
+      latencies.push(performance.now() - dueAt);
+      if (response.status === 201) {
+        acknowledgedKeys.push(key);
+        if (bodies.length < 100) bodies.push({ cookie: cookies[t]!, body });
+      } else refused[String(response.status)] = (refused[String(response.status)] ?? 0) + 1;
+    };
     const wallStart = performance.now();
-    await Promise.all(
-      testers.map(async (tester, t) => {
-        for (let i = 0; i < perTester; i++) {
-          const assembly = targets[t * perTester + i];
-          if (!assembly) return;
-          const key = randomBytes(16).toString("hex");
-          const body = JSON.stringify({
-            idempotencyKey: key,
-            assemblyId: assembly.id,
-            kitId: tester.kitId,
-            testedOn: today,
-            testedTime: `${String(7 + (i % 10)).padStart(2, "0")}:${String((i * 7) % 60).padStart(2, "0")}`,
-            reason: "annual",
-            installation: "existing",
-            orientationApproved: true,
-            reliefPortAirGapOk: true,
-            unit: "psid",
-            linePressure: 60 + (i % 20),
-            initial: { reliefValveOpeningPoint: 2.4 + (i % 10) / 10, check1Differential: 5.8 + (t % 10) / 10, check1ClosedTight: true, check2ClosedTight: true, shutoff2Tight: true },
-            repairs: [],
-            retest: null,
-            remarks: "",
-            attestation: { name: tester.name, confirmed: true },
-          });
-          const start = performance.now();
-          const response = await fetch(`${options.appUrl}/api/reports`, { method: "POST", headers: { cookie: cookies[t]!, "content-type": "application/json", origin: options.appUrl }, body });
-          await response.arrayBuffer();
-          latencies.push(performance.now() - start);
-          if (response.status === 201) {
-            acknowledgedKeys.push(key);
-            if (bodies.length < 100) bodies.push({ cookie: cookies[t]!, body });
-          } else refused[String(response.status)] = (refused[String(response.status)] ?? 0) + 1;
-        }
-      }),
-    );
+    if (options.ratePerSecond) {
+      const intervalMs = 1000 / options.ratePerSecond;
+      const inFlight: Promise<void>[] = [];
+      for (let k = 0; k < total; k++) {
+        const dueAt = wallStart + k * intervalMs;
+        const wait = dueAt - performance.now();
+        if (wait > 0) await new Promise((resolve) => setTimeout(resolve, wait));
+        inFlight.push(submitOne(k % testerCount, Math.floor(k / testerCount), targets[k]!, dueAt));
+      }
+      await Promise.all(inFlight);
+    } else {
+      await Promise.all(
+        testers.map(async (_tester, t) => {
+          for (let i = 0; i < perTester; i++) {
+            const assembly = targets[t * perTester + i];
+            if (!assembly) return;
+            await submitOne(t, i, assembly, performance.now());
+          }
+        }),
+      );
+    }
     const wallSeconds = (performance.now() - wallStart) / 1000;
 
     const countStored = async () => {
