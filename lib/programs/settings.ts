@@ -45,9 +45,20 @@ export function ruleSetForEdition(edition: string, localEditions: readonly { edi
   return (local?.data as RuleSet | undefined) ?? defaultRuleSet;
 }
 
+// A formatter per zone, made once: building one costs more than a whole look-up of a program.
+const dayFormatters = new Map<string, Intl.DateTimeFormat>();
+function dayFormatter(timezone: string): Intl.DateTimeFormat {
+  let formatter = dayFormatters.get(timezone);
+  if (!formatter) {
+    formatter = new Intl.DateTimeFormat("en-CA", { timeZone: timezone, year: "numeric", month: "2-digit", day: "2-digit" });
+    dayFormatters.set(timezone, formatter);
+  }
+  return formatter;
+}
+
 /** "Today" in the program's time zone, as YYYY-MM-DD. */
 export function todayInZone(timezone: string, now: Date = new Date()): string {
-  const parts = new Intl.DateTimeFormat("en-CA", { timeZone: timezone, year: "numeric", month: "2-digit", day: "2-digit" }).formatToParts(now);
+  const parts = dayFormatter(timezone).formatToParts(now);
   const get = (type: string) => parts.find((p) => p.type === type)?.value ?? "";
   return `${get("year")}-${get("month")}-${get("day")}`;
 }
