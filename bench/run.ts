@@ -131,12 +131,12 @@ async function main() {
       const http = await benchHttp({ url, headers: { cookie: inspector } });
       const direct = await benchDirect({
         databaseUrl: scaleUrl,
-        sql: `SELECT tr.id, tr.report_number, tr.revision, tr.submitted_at, tr.tested_on, tr.assembly_id, a.site_id, a.status, a.kind, tr.tester_id, tr.assembly_snapshot, tr.tester_snapshot, tr.initial_outcome, tr.final_outcome, tr.was_repaired, tr.validity, tr.signals, tr.is_clean
+        // The statement the app sends (lib/data/review-queue.ts): the page with both counts.
+        sql: `SELECT tr.id, tr.report_number, tr.revision, tr.submitted_at, tr.tested_on, tr.assembly_id, a.site_id, a.status, a.kind, tr.tester_id, tr.assembly_snapshot, tr.tester_snapshot, tr.initial_outcome, tr.final_outcome, tr.was_repaired, tr.validity, tr.signals, tr.is_clean,
+                (SELECT COUNT(*) FROM test_reports WHERE program_id = 1 AND status = 'queued') AS total,
+                (SELECT COUNT(*) FROM test_reports WHERE program_id = 1 AND status = 'queued' AND assembly_kind = 'RP') AS matching
               FROM test_reports tr JOIN assemblies a ON a.id = tr.assembly_id
-              WHERE tr.program_id = 1 AND tr.status = 'queued' AND tr.assembly_kind = 'RP' ORDER BY tr.submitted_at, tr.id LIMIT 26;
-              SELECT COUNT(*) FROM test_reports WHERE program_id = 1 AND status = 'queued';
-              SELECT COUNT(*) FROM test_reports WHERE program_id = 1 AND status = 'queued' AND assembly_kind = 'RP'`,
-        multiStatement: true,
+              WHERE tr.program_id = 1 AND tr.status = 'queued' AND tr.assembly_kind = 'RP' ORDER BY tr.submitted_at, tr.id LIMIT 26`,
       });
       const ratio = http.p95 / Math.max(direct.p95, 0.01);
       // The floor of any route handler on this machine at the same concurrency: no session, one SELECT 1.

@@ -211,6 +211,9 @@ function buildPageStatement(filter: QueueFilter, sort: QueueSort, hasCursor: boo
       validity: testReports.validity,
       signals: testReports.signals,
       isClean: testReports.isClean,
+      // The counts ride along on every row: uncorrelated, so the database works each out once,
+      // and the page costs one statement.
+      ...queueCounts(filter),
     })
     .from(testReports)
     .innerJoin(assemblies, eq(assemblies.id, testReports.assemblyId))
@@ -220,13 +223,18 @@ function buildPageStatement(filter: QueueFilter, sort: QueueSort, hasCursor: boo
     .prepare();
 }
 
-/** Everything queued and what the filter matches, in one statement: each count reads its own index range. */
-function buildCountStatement(filter: QueueFilter) {
+/** Everything queued, and what the filter matches: each count reads its own index range. */
+function queueCounts(filter: QueueFilter) {
   const db = getDb();
   const all = db.select({ n: count() }).from(testReports).where(and(eq(testReports.programId, sql.placeholder("programId")), eq(testReports.status, "queued")));
   // Every filter is on the report itself (it carries the kind it tested): no join to count.
   const matching = db.select({ n: count() }).from(testReports).where(and(...queueConditions(placeholderBinds(filter), filter)));
-  return db.select({ total: sql<number>`(${all})`, matching: sql<number>`(${matching})` }).from(sql`DUAL`).prepare();
+  return { total: sql<number>`(${all})`, matching: sql<number>`(${matching})` };
+}
+
+/** The two counts alone, for a page with no rows to carry them. */
+function buildCountStatement(filter: QueueFilter) {
+  return getDb().select(queueCounts(filter)).from(sql`DUAL`).prepare();
 }
 
 export async function listReviewQueue(actor: Actor, query: QueuePageQuery, now = new Date()): Promise<QueuePage> {
@@ -237,12 +245,11 @@ export async function listReviewQueue(actor: Actor, query: QueuePageQuery, now =
   // Prepared once per shape (which filters are set, the sort, whether there is a cursor): at
   // most a few hundred, each built on its first request.
   const page = prepared(`queue.page|${shapeOf(query)}|${query.sort}|${cursor ? "c" : ""}`, () => buildPageStatement(query, query.sort, Boolean(cursor)));
-  const counts = prepared(`queue.count|${shapeOf(query)}`, () => buildCountStatement(query));
   const values = placeholderValues(programId, query, now);
   const cursorValues = cursor ? { cursorValue: byTested ? cursor.v : testReports.submittedAt.mapToDriverValue(new Date(cursor.v)), cursorId: cursor.id } : {};
 
-  // The page and both counts at once: two statements in flight, one wait.
-  const [rows, [countRow]] = await Promise.all([page.execute({ ...values, ...cursorValues, limit: query.limit + 1 }), counts.execute(values)]);
+  const rows = await page.execute({ ...values, ...cursorValues, limit: query.limit + 1 });
+  const [countRow] = rows.length > 0 ? rows : await prepared(`queue.count|${shapeOf(query)}`, () => buildCountStatement(query)).execute(values);
   const hasMore = rows.length > query.limit;
   const pageRows = rows.slice(0, query.limit);
   const last = pageRows.at(-1);
