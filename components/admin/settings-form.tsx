@@ -31,7 +31,7 @@ export interface SettingsValues {
 
 interface SaveResult {
   changed: string[];
-  recomputed: { assemblies: number; changed: number; milliseconds: number } | null;
+  isRecomputeOwed: boolean;
 }
 
 /** "12.50" → 1250; null when it is not an amount with at most two decimals. */
@@ -107,9 +107,8 @@ export function SettingsForm({ initial, editions }: { initial: SettingsValues; e
     setMessage({
       tone: "success",
       text:
-        r.changed.length === 0
-          ? "Nothing had changed."
-          : `Saved (${r.changed.length} setting${r.changed.length === 1 ? "" : "s"} changed).${r.recomputed ? ` The due dates and repair deadlines of ${r.recomputed.assemblies.toLocaleString("en-US")} assemblies were recomputed in ${(r.recomputed.milliseconds / 1000).toFixed(1)} s; ${r.recomputed.changed.toLocaleString("en-US")} moved.` : ""}`,
+        (r.changed.length === 0 ? "Nothing had changed." : `Saved (${r.changed.length} setting${r.changed.length === 1 ? "" : "s"} changed).`) +
+        (r.isRecomputeOwed ? " Every assembly's due date and repair deadline is now recomputed; the top of the page shows the progress while that runs." : ""),
     });
     router.refresh();
   };

@@ -51,6 +51,10 @@ export const programSettings = mysqlTable("program_settings", {
   updatedBy: int({ unsigned: true }),
   /** Set with a change that moves due dates, cleared once every assembly has been recomputed: a recompute cut short is finished by the next one (the notice run starts with it). */
   factsPendingSince: datetime({ fsp: 3 }),
+  /** The recompute under way: assemblies done of the program's total, and when it last moved on (a stale time means it was cut short). */
+  factsRecomputeDone: int({ unsigned: true }),
+  factsRecomputeTotal: int({ unsigned: true }),
+  factsRecomputeAt: datetime({ fsp: 3 }),
 });
 
 /** A program's own rule-set edition (stricter local minimums, or a documented variance). */

@@ -149,18 +149,20 @@ export interface ProgramRecomputeResult {
 /**
  * Every assembly of a program, a chunk per transaction (locks are held for one chunk only, so
  * reviews and submissions carry on meanwhile). Used after a settings change that moves due
- * dates or repair deadlines.
+ * dates or repair deadlines. The settings are read again with every chunk, inside its
+ * transaction: a change saved while a recompute runs applies to every chunk after it, and the
+ * recompute that change asks for redoes the ones before.
  */
-export async function recomputeProgramFacts(programId: number, options: { chunkSize?: number; onProgress?: (done: number) => void } = {}): Promise<ProgramRecomputeResult> {
+export async function recomputeProgramFacts(programId: number, options: { chunkSize?: number; onProgress?: (done: number) => Promise<void> | void } = {}): Promise<ProgramRecomputeResult> {
   const started = Date.now();
   const db = getDb();
-  const rules = await rulesOfProgram(db, programId);
   const chunkSize = options.chunkSize ?? FACTS_CHUNK_SIZE;
   let afterId = 0;
   let total = 0;
   let changed = 0;
   for (;;) {
     const result = await db.transaction(async (tx) => {
+      const rules = await rulesOfProgram(tx, programId);
       const rows = (await tx
         .select(factsColumns)
         .from(assemblies)
@@ -173,7 +175,7 @@ export async function recomputeProgramFacts(programId: number, options: { chunkS
     total += result.rows;
     changed += result.changed;
     afterId = result.lastId;
-    options.onProgress?.(total);
+    await options.onProgress?.(total);
     if (result.rows < chunkSize) break;
   }
   return { assemblies: total, changed, milliseconds: Date.now() - started };
@@ -181,17 +183,53 @@ export async function recomputeProgramFacts(programId: number, options: { chunkS
 
 /**
  * Finishes a recompute that a settings change asked for (program_settings.facts_pending_since),
- * if one is still owed: after the settings request that started it, or after one cut short.
- * The mark is cleared only up to the change it was read for, so a newer change still counts.
+ * if one is still owed: after the settings save that started it, or after one cut short. Its
+ * progress is kept on the settings row (done of total, and when it last moved on) for the
+ * settings page. The mark is cleared only up to the change it was read for, so a newer change
+ * still counts.
  */
 export async function finishPendingFactsRecompute(programId: number): Promise<ProgramRecomputeResult | null> {
   const db = getDb();
   const [row] = await db.select({ since: programSettings.factsPendingSince }).from(programSettings).where(eq(programSettings.programId, programId)).limit(1);
   if (!row?.since) return null;
-  const result = await recomputeProgramFacts(programId);
+  const [counted] = await db.select({ n: sql<number>`COUNT(*)` }).from(assemblies).where(eq(assemblies.programId, programId));
+  const progress = (done: number) => db.update(programSettings).set({ factsRecomputeDone: done, factsRecomputeTotal: Number(counted?.n ?? 0), factsRecomputeAt: new Date() }).where(eq(programSettings.programId, programId));
+  await progress(0);
+  const result = await recomputeProgramFacts(programId, { onProgress: async (done) => void (await progress(done)) });
   await db
     .update(programSettings)
-    .set({ factsPendingSince: null })
+    .set({ factsPendingSince: null, factsRecomputeDone: null, factsRecomputeTotal: null, factsRecomputeAt: null })
     .where(and(eq(programSettings.programId, programId), lte(programSettings.factsPendingSince, row.since)));
   return result;
+}
+
+// One recompute at a time per program in this process; a request for one while it runs makes
+// it go round once more, so a change saved meanwhile is never left owed.
+const inFlight = new Map<number, { again: boolean; done: Promise<void> }>();
+
+/**
+ * Runs the owed recompute of a program to the end (again while changes keep arriving), calling
+ * onFinished with each pass's figures. Settings saves hand it to after(), so the save answers
+ * at once; the notice run awaits it before planning.
+ */
+export function runPendingFactsRecompute(programId: number, onFinished: (result: ProgramRecomputeResult) => Promise<void>): Promise<void> {
+  const running = inFlight.get(programId);
+  if (running) {
+    running.again = true;
+    return running.done;
+  }
+  const entry = { again: false, done: Promise.resolve() };
+  inFlight.set(programId, entry);
+  entry.done = (async () => {
+    try {
+      do {
+        entry.again = false;
+        const result = await finishPendingFactsRecompute(programId);
+        if (result) await onFinished(result);
+      } while (entry.again);
+    } finally {
+      inFlight.delete(programId);
+    }
+  })();
+  return entry.done;
 }

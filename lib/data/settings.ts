@@ -23,7 +23,7 @@ import {
   type RuleSetValuePath,
 } from "@/lib/rules";
 import { recordAudit } from "./audit";
-import { finishPendingFactsRecompute, type ProgramRecomputeResult } from "./inventory-facts";
+import { runPendingFactsRecompute } from "./inventory-facts";
 
 export type ProgramSettingsRow = typeof programSettings.$inferSelect;
 
@@ -135,6 +135,32 @@ export interface SettingsView {
   updatedAt: string;
   /** When a settings change asked for due dates to be recomputed and that is not finished yet. */
   factsPendingSince: string | null;
+  recompute: RecomputeStatus;
+}
+
+/** Where the recompute of due dates a settings change asked for has got to. */
+export interface RecomputeStatus {
+  /** Set while one is owed. */
+  pendingSince: string | null;
+  done: number;
+  total: number;
+  /** When it last moved on; a recompute that has not moved for a minute was cut short. */
+  movedAt: string | null;
+  isStalled: boolean;
+}
+
+/** A recompute that has not moved on for this long is taken to have been cut short (a chunk takes well under a second). */
+const STALLED_AFTER_MS = 60_000;
+
+function recomputeStatusOf(s: { factsPendingSince: Date | null; factsRecomputeDone: number | null; factsRecomputeTotal: number | null; factsRecomputeAt: Date | null }, now = Date.now()): RecomputeStatus {
+  const movedAt = s.factsRecomputeAt ?? s.factsPendingSince;
+  return {
+    pendingSince: s.factsPendingSince?.toISOString() ?? null,
+    done: s.factsRecomputeDone ?? 0,
+    total: s.factsRecomputeTotal ?? 0,
+    movedAt: s.factsRecomputeAt?.toISOString() ?? null,
+    isStalled: Boolean(s.factsPendingSince && movedAt && now - movedAt.getTime() > STALLED_AFTER_MS),
+  };
 }
 
 export async function listRuleSetEditions(programId: number): Promise<RuleSetEditionOption[]> {
@@ -178,18 +204,34 @@ export async function getSettingsView(actor: Actor): Promise<SettingsView> {
     editions: await listRuleSetEditions(context.id),
     updatedAt: s.updatedAt.toISOString(),
     factsPendingSince: s.factsPendingSince?.toISOString() ?? null,
+    recompute: recomputeStatusOf(s),
   };
+}
+
+/** The recompute's progress, for the settings page to follow. */
+export async function getRecomputeStatus(actor: Actor): Promise<RecomputeStatus> {
+  assertCan(actor, "settings.manage");
+  const programId = staffProgramId(actor);
+  const [row] = await getDb()
+    .select({ factsPendingSince: programSettings.factsPendingSince, factsRecomputeDone: programSettings.factsRecomputeDone, factsRecomputeTotal: programSettings.factsRecomputeTotal, factsRecomputeAt: programSettings.factsRecomputeAt })
+    .from(programSettings)
+    .where(eq(programSettings.programId, programId))
+    .limit(1);
+  if (!row) throw new NotFoundError("No settings for this program.");
+  return recomputeStatusOf(row);
 }
 
 export interface SettingsUpdateResult {
   changed: string[];
-  recomputed: ProgramRecomputeResult | null;
+  /** Due dates are to be recomputed (this change moves them, or an earlier recompute was cut short): see recomputeOwedFacts. */
+  isRecomputeOwed: boolean;
 }
 
 /**
  * Saves the program's settings after lib/rules has judged them (due model, intervals, the notice
- * schedule's order). A change that moves due dates recomputes every assembly's stored facts,
- * a chunk per transaction, before answering (and is marked as owed until that is done).
+ * schedule's order). A change that moves due dates is marked as owing a recompute of every
+ * assembly's stored facts, in the same transaction; the route hands recomputeOwedFacts to
+ * after(), so the save answers at once and the settings page follows the progress.
  */
 export async function updateProgramSettings(actor: Actor, input: SettingsInput): Promise<SettingsUpdateResult> {
   assertCan(actor, "settings.manage");
@@ -234,12 +276,20 @@ export async function updateProgramSettings(actor: Actor, input: SettingsInput):
     await recordAudit(tx, { programId, actorId: actor.id, action: "settings.updated", entityType: "program_settings", entityId: programId, before, after });
     return keys;
   });
-  // Whatever changed, a recompute still owed (this change's, or one cut short) is done before answering.
-  const recomputed: ProgramRecomputeResult | null = await finishPendingFactsRecompute(programId);
-  if (recomputed) {
-    await recordAudit(db, { programId, actorId: actor.id, action: "assemblies.facts_recomputed", entityType: "program", entityId: programId, after: recomputed });
-  }
-  return { changed, recomputed };
+  const [mark] = await db.select({ since: programSettings.factsPendingSince }).from(programSettings).where(eq(programSettings.programId, programId)).limit(1);
+  return { changed, isRecomputeOwed: Boolean(mark?.since) };
+}
+
+/**
+ * The recompute owed after a settings change (or one cut short), to the end, a chunk per
+ * transaction, each pass in the audit log. Runs after the save has answered.
+ */
+export async function recomputeOwedFacts(actor: Actor): Promise<void> {
+  assertCan(actor, "settings.manage");
+  const programId = staffProgramId(actor);
+  await runPendingFactsRecompute(programId, async (recomputed) => {
+    await recordAudit(getDb(), { programId, actorId: actor.id, action: "assemblies.facts_recomputed", entityType: "program", entityId: programId, after: recomputed });
+  });
 }
 
 // ------------------------------------------------------------------ local rule-set editions

@@ -69,7 +69,7 @@ describe.runIf(isDatabaseServerAvailable())("a database outage as the tester sub
     }
 
     // The app finds the database again by itself.
-    await expect.poll(async () => (await page.request.get(appUrl("/api/health"))).status(), { timeout: 60_000, intervals: [500] }).toBe(200);
+    await expect.poll(async () => (await page.request.get(appUrl("/api/health"))).status(), { timeout: 60_000, interval: 500 }).toBe(200);
     await page.reload();
     await expect.poll(() => page.getByText(/Continuing the test saved on this/).count(), { timeout: 15_000 }).toBe(1);
     expect(await page.locator("#initial-reliefValveOpeningPoint").inputValue()).toBe("2.5");

@@ -61,6 +61,7 @@ export const inspectorRoutes: RouteEntry[] = [
   { route: "/api/inspector/summary/[year]/pdf", path: "/api/inspector/summary/2025/pdf", method: "GET", expect: apiFor(...staff) },
   // admin
   { route: "/api/admin/settings", method: "PUT", expect: apiFor("admin") },
+  { route: "/api/admin/settings/recompute", method: "GET", expect: apiFor("admin") },
   { route: "/api/admin/rule-sets", method: "POST", expect: apiFor("admin") },
   { route: "/api/admin/return-reasons", method: "POST", expect: apiFor("admin") },
   { route: "/api/admin/return-reasons/[id]", path: `/api/admin/return-reasons/${MISSING}`, method: "PATCH", expect: apiFor("admin") },

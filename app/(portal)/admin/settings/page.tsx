@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
+import { RecomputeStatusPanel } from "@/components/admin/recompute-status";
 import { RuleSetForm, type ValueRow } from "@/components/admin/rule-set-form";
 import { SettingsForm } from "@/components/admin/settings-form";
-import { Alert } from "@/components/ui/alert";
 import { formatDay, formatInstant } from "@/components/inspector/format";
 import { Card, PageHeader } from "@/components/ui/card";
 import { requirePermission } from "@/lib/auth/guards";
@@ -39,11 +39,9 @@ export default async function SettingsPage() {
   return (
     <>
       <PageHeader title="Program settings" description={`How ${view.programName} runs its program. Last changed ${formatInstant(view.updatedAt, context.timezone)}. Every change is kept in the audit log.`} />
-      {view.factsPendingSince ? (
+      {view.recompute.pendingSince ? (
         <div className="mb-6">
-          <Alert tone="warning" title="Due dates are still being recomputed">
-            The change saved at {formatInstant(view.factsPendingSince, context.timezone)} moves due dates, and not every assembly has been recomputed yet (the save may have been cut short). The next notice run finishes it before it plans anything, and pressing Save below finishes it now.
-          </Alert>
+          <RecomputeStatusPanel initial={view.recompute} timezone={context.timezone} />
         </div>
       ) : null}
       <SettingsForm initial={view.settings} editions={view.editions} />
