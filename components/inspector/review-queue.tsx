@@ -1,7 +1,7 @@
 "use client";
 
 import { createColumnHelper, flexRender, getCoreRowModel, useReactTable } from "@tanstack/react-table";
-import { usePathname, useRouter, useSearchParams } from "next/navigation";
+import { usePathname, useSearchParams } from "next/navigation";
 import { useRef, useState } from "react";
 import useSWR from "swr";
 import { Badge } from "@/components/ui/badge";
@@ -64,7 +64,6 @@ const signalShort: Record<string, string> = {
 const column = createColumnHelper<QueueRow>();
 
 export function ReviewQueue({ initialFilter, initialPage, testers, timezone }: ReviewQueueProps) {
-  const router = useRouter();
   const pathname = usePathname();
   const searchParams = useSearchParams();
   const [filter, setFilter] = useState<QueueFilterState>(initialFilter);
@@ -86,7 +85,9 @@ export function ReviewQueue({ initialFilter, initialPage, testers, timezone }: R
       if (next[k]) params.set(k, next[k]);
       else params.delete(k);
     }
-    router.replace(`${pathname}${params.size ? `?${params.toString()}` : ""}`, { scroll: false });
+    // The address follows the filter (for a reload or a shared link) without a server render:
+    // the list itself comes from the API.
+    window.history.replaceState(null, "", `${pathname}${params.size ? `?${params.toString()}` : ""}`);
   };
   const set = (k: (typeof filterKeys)[number], value: string) => update({ ...filter, [k]: value || undefined });
   const sortBy = (column: "submitted" | "tested") => {

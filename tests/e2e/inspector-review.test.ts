@@ -45,7 +45,7 @@ describe("the inspector's review and inventory work", () => {
     await expect.poll(() => page.getByText(/of [\d,]+ waiting reports match/).textContent()).toMatch(/^2 of/);
     await page.getByLabel("Grade").selectOption("fail");
     await expect.poll(() => page.getByText(/of [\d,]+ waiting reports match/).textContent()).toMatch(/^1 of/);
-    expect(new URL(page.url()).searchParams.get("grade")).toBe("fail");
+    await expect.poll(() => new URL(page.url()).searchParams.get("grade")).toBe("fail");
     await screenshot(page, "inspector-queue-filtered");
 
     // Open the failed one and return it with a reason from the program's list.
