@@ -1,15 +1,12 @@
 // The demo tester on a phone: finds an RP, files a test that fails, records the repair,
 // retests, survives a lost connection and a reload, signs, submits and downloads the PDF.
 import { execFileSync } from "node:child_process";
-import { and, asc, eq, isNotNull, lt } from "drizzle-orm";
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
-import { assemblies } from "@/db/schema";
 import { DEMO_PASSWORD, demoAccounts } from "@/db/seed/demo-accounts";
-import { addDays } from "@/lib/rules";
-import { closeTestDb, testDb } from "../helpers/db";
+import { closeTestDb } from "../helpers/db";
 import { appUrl, launchBrowser, screenshot, signInWithBrowser } from "../helpers/browser";
-import { today } from "../integration/tester-fixtures";
+import { pickUntestedRp, today } from "../integration/tester-fixtures";
 
 let browser: Browser;
 beforeAll(async () => {
@@ -20,21 +17,9 @@ afterAll(async () => {
   await closeTestDb();
 });
 
-/** An RP in the first program, in service, not tested in the last few days. */
-async function pickAssembly(offset = 0) {
-  const [row] = await testDb()
-    .select({ id: assemblies.id, serial: assemblies.serial })
-    .from(assemblies)
-    .where(and(eq(assemblies.programId, 1), eq(assemblies.kind, "RP"), eq(assemblies.status, "active"), eq(assemblies.baseState, "active"), isNotNull(assemblies.lastTestedOn), lt(assemblies.lastTestedOn, addDays(today(), -200))))
-    .orderBy(asc(assemblies.id))
-    .limit(1)
-    .offset(offset);
-  return row!;
-}
-
 describe("a field test on a phone", () => {
   test("RP fails, is repaired and retested, submitted, and the PDF says so", async () => {
-    const assembly = await pickAssembly();
+    const assembly = await pickUntestedRp();
     const context = await browser.newContext({ viewport: { width: 390, height: 844 }, hasTouch: true, isMobile: true });
     const page = await signInWithBrowser(context, demoAccounts.tester, DEMO_PASSWORD);
 
@@ -120,7 +105,7 @@ describe("a field test on a phone", () => {
   });
 
   test("the form refuses to submit an incomplete test and lists what is missing", async () => {
-    const assembly = await pickAssembly(1);
+    const assembly = await pickUntestedRp(1);
     const context = await browser.newContext({ viewport: { width: 390, height: 844 } });
     const page = await signInWithBrowser(context, demoAccounts.tester, DEMO_PASSWORD);
     await page.goto(appUrl(`/tester/reports/new?assembly=${assembly.id}`));

@@ -1,16 +1,15 @@
 // The database goes away just as a tester presses Submit in the browser: the form says the
 // service is briefly unavailable and keeps the test on the phone; after the database is back,
 // a reload brings the test back and Submit files it, once.
-import { and, asc, eq, isNotNull, lt } from "drizzle-orm";
+import { and, eq } from "drizzle-orm";
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
-import { assemblies, testReports } from "@/db/schema";
+import { testReports } from "@/db/schema";
 import { DEMO_PASSWORD, demoAccounts } from "@/db/seed/demo-accounts";
-import { addDays } from "@/lib/rules";
 import { appUrl, launchBrowser, screenshot, signInWithBrowser } from "../helpers/browser";
 import { isDatabaseServerAvailable, startDatabaseServer, stopDatabaseServer } from "../helpers/database-server";
 import { closeTestDb, testDb } from "../helpers/db";
-import { today } from "../integration/tester-fixtures";
+import { pickUntestedRp, today } from "../integration/tester-fixtures";
 
 let browser: Browser;
 beforeAll(async () => {
@@ -21,21 +20,9 @@ afterAll(async () => {
   await closeTestDb();
 });
 
-/** An RP in the first program, in service and not tested for a while (past the ones the browser tests use). */
-async function pickAssembly() {
-  const [row] = await testDb()
-    .select({ id: assemblies.id })
-    .from(assemblies)
-    .where(and(eq(assemblies.programId, 1), eq(assemblies.kind, "RP"), eq(assemblies.status, "active"), eq(assemblies.baseState, "active"), isNotNull(assemblies.lastTestedOn), lt(assemblies.lastTestedOn, addDays(today(), -200))))
-    .orderBy(asc(assemblies.id))
-    .limit(1)
-    .offset(5);
-  return row!;
-}
-
 describe.runIf(isDatabaseServerAvailable())("a database outage as the tester submits", () => {
   test("the form keeps the test and says to try again; once the database is back the report is filed once", async () => {
-    const assembly = await pickAssembly();
+    const assembly = await pickUntestedRp(5);
     const context = await browser.newContext({ viewport: { width: 390, height: 844 }, hasTouch: true, isMobile: true });
     const page = await signInWithBrowser(context, demoAccounts.tester, DEMO_PASSWORD);
     await page.goto(appUrl(`/tester/reports/new?assembly=${assembly.id}`));

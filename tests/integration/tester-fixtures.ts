@@ -1,6 +1,7 @@
 // Rows the tester-area tests create for themselves (unique names, never the demo's own
 // testers), so no test depends on another's leftovers or on the order they run in.
 import { randomBytes } from "node:crypto";
+import { and, asc, eq, isNotNull, lt } from "drizzle-orm";
 import { assemblies, certifications, programSettings, programs, sites, testerApprovals, testKits, users } from "@/db/schema";
 import { todayInZone } from "@/lib/programs/settings";
 import { addDays, addMonths } from "@/lib/rules";
@@ -104,4 +105,17 @@ export function rpSubmission(args: { assemblyId: number; kitId: number; testerNa
     attestation: { name: testerName, confirmed: true },
     ...rest,
   };
+}
+
+/** A seeded RP in the first program, in service and not tested for 200 days: the offset picks the next one along. */
+export async function pickUntestedRp(offset = 0): Promise<{ id: number; serial: string }> {
+  const [row] = await testDb()
+    .select({ id: assemblies.id, serial: assemblies.serial })
+    .from(assemblies)
+    .where(and(eq(assemblies.programId, 1), eq(assemblies.kind, "RP"), eq(assemblies.status, "active"), eq(assemblies.baseState, "active"), isNotNull(assemblies.lastTestedOn), lt(assemblies.lastTestedOn, addDays(today(), -200))))
+    .orderBy(asc(assemblies.id))
+    .limit(1)
+    .offset(offset);
+  if (!row) throw new Error("No untested RP left in the seeded program");
+  return row;
 }
